@@ -1,0 +1,4 @@
+export * from './common';
+export * from './setup';
+export * from './records';
+export * from './protocol';
