@@ -1,0 +1,137 @@
+import type { DeviceRecord, PushStatus, SetupRecord } from '../../schema/index';
+
+/**
+ * Storage behind the sync server. Every method returns a Promise so that a PostgreSQL
+ * implementation can share this contract with the (synchronous) SQLite one.
+ *
+ * The log: one sequence of entries in server order (`serverSeq`, assigned at commit, strictly
+ * increasing in commit order), holding both set-up versions and device records. Pulls read it
+ * by cursor; nothing in it is ever updated or deleted.
+ */
+export interface ServerStore {
+  /** Random string that identifies this database's history; a restored copy gets a new one. */
+  getServerEpoch(): Promise<string>;
+
+  /** Appends new versions of set-up entities to the log in one transaction; returns their serverSeqs in order. */
+  appendSetup(entries: readonly SiteScopedSetup[], serverTime: string): Promise<number[]>;
+  /** Latest version of one set-up entity, or undefined. */
+  getSetup<K extends SetupKind>(kind: K, id: string): Promise<CurrentSetup<K> | undefined>;
+  /** Latest versions of every entity of one kind at a site. */
+  listSetup<K extends SetupKind>(siteId: string, kind: K): Promise<CurrentSetup<K>[]>;
+
+  /** Stores (or replaces) the secrets of a person: PIN hash and the offline verifier. */
+  setPersonSecrets(secrets: PersonSecrets): Promise<void>;
+  getPersonSecrets(personId: string): Promise<PersonSecrets | undefined>;
+
+  createEnrolmentCode(code: NewEnrolmentCode): Promise<void>;
+  /**
+   * Atomically uses a code and creates the device: succeeds only if the code exists, is unused
+   * and has not expired at `now`. A used or expired code is reported, never reused.
+   */
+  redeemEnrolmentCode(codeHash: string, now: string, device: NewDevice): Promise<RedeemResult>;
+  findDeviceByTokenHash(tokenHash: string): Promise<DeviceRow | undefined>;
+  /** Registers a device directly (the demo seeder's own device); fails if the id exists. */
+  createDevice(device: NewDevice & { siteId: string }): Promise<void>;
+
+  createSession(session: SessionRow): Promise<void>;
+  findSessionByTokenHash(tokenHash: string): Promise<SessionRow | undefined>;
+
+  /**
+   * Inserts device records in ONE transaction, insert-if-absent by id. For each item:
+   * new id → 'stored' with a fresh serverSeq; same id and same content hash → 'duplicate' with the
+   * stored serverSeq; same id, different content → 'conflict' (the stored record is kept).
+   */
+  insertRecords(items: readonly RecordToInsert[], serverTime: string): Promise<InsertOutcome[]>;
+
+  /** Log entries of a site with serverSeq > after, in serverSeq order, at most `limit`. */
+  readLog(siteId: string, after: number, limit: number): Promise<LogRow[]>;
+
+  close(): Promise<void>;
+}
+
+export type SetupKind = SetupRecord['kind'];
+export type SetupBody<K extends SetupKind> = Extract<SetupRecord, { kind: K }>['body'];
+
+/** A set-up entry together with the site it belongs to (the log is read per site). */
+export interface SiteScopedSetup {
+  readonly siteId: string;
+  readonly record: SetupRecord;
+}
+
+export interface CurrentSetup<K extends SetupKind> {
+  readonly kind: K;
+  readonly id: string;
+  readonly siteId: string;
+  readonly body: SetupBody<K>;
+  readonly serverSeq: number;
+}
+
+export interface PersonSecrets {
+  readonly personId: string;
+  /** scrypt of the PIN, see pin-hash.ts. */
+  readonly pinHash: string;
+  readonly pinSalt: string;
+  /** PBKDF2-SHA256 of the PIN for offline sign-in on tablets, see pin-hash.ts. */
+  readonly verifierSalt: string;
+  readonly verifierHash: string;
+  readonly verifierIterations: number;
+  readonly updatedAt: string;
+}
+
+export interface NewEnrolmentCode {
+  readonly codeHash: string;
+  readonly siteId: string;
+  readonly createdBy: string;
+  readonly createdAt: string;
+  readonly expiresAt: string;
+}
+
+export interface NewDevice {
+  readonly id: string;
+  readonly name: string;
+  readonly tokenHash: string;
+  readonly enrolledAt: string;
+}
+
+export type RedeemResult =
+  | { readonly ok: true; readonly siteId: string }
+  | { readonly ok: false; readonly reason: 'unknown' | 'used' | 'expired' };
+
+export interface DeviceRow {
+  readonly id: string;
+  readonly siteId: string;
+  readonly name: string;
+  readonly enrolledAt: string;
+  readonly revokedAt: string | null;
+}
+
+export interface SessionRow {
+  readonly tokenHash: string;
+  readonly personId: string;
+  readonly deviceId: string;
+  readonly createdAt: string;
+  readonly expiresAt: string;
+}
+
+export interface RecordToInsert {
+  readonly record: DeviceRecord;
+  readonly siteId: string;
+  /** sha256 of the canonical JSON of `record`. */
+  readonly contentHash: string;
+  /** Audit: the device that sent it (from the token), the person named in it, the device's clock. */
+  readonly deviceId: string;
+  readonly personId: string;
+  readonly clientTime: string;
+}
+
+export interface InsertOutcome {
+  readonly id: string;
+  readonly status: Extract<PushStatus, 'stored' | 'duplicate' | 'conflict'>;
+  /** For 'stored' and 'duplicate': the record's serverSeq; for 'conflict': that of the record kept. */
+  readonly serverSeq: number;
+}
+
+export type LogRow =
+  | { readonly serverSeq: number; readonly serverTime: string; readonly entry: SetupRecord }
+  | { readonly serverSeq: number; readonly serverTime: string; readonly entry: { kind: 'record'; id: string; body: DeviceRecord } };
+
