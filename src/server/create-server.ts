@@ -3,8 +3,10 @@ import { PROTOCOL_HEADER, PROTOCOL_VERSION } from '../schema/index';
 import { HttpError } from './http-error';
 import { RateLimiter } from './rate-limiter';
 import { registerAdminEnrolmentCodesRoute } from './routes/admin-enrolment-codes';
+import { registerAdminPinRoute } from './routes/admin-pin';
 import { registerEnrolRoute } from './routes/enrol';
 import { registerHealthRoute } from './routes/health';
+import { registerSetupRoute } from './routes/setup';
 import { registerSignInRoute } from './routes/sign-in';
 import { registerSyncPullRoute } from './routes/sync-pull';
 import { registerSyncPushRoute } from './routes/sync-push';
@@ -88,6 +90,8 @@ export function createServer(options: CreateServerOptions): FastifyInstance {
   registerSyncPushRoute(app, ctx);
   registerSyncPullRoute(app, ctx);
   registerAdminEnrolmentCodesRoute(app, ctx);
+  registerAdminPinRoute(app, ctx);
+  registerSetupRoute(app, ctx);
   return app;
 }
 

@@ -70,7 +70,7 @@ function decodePath(url: string): string {
     throw new HttpError(400, 'bad-request', 'The address is not properly encoded.');
   }
   if (decoded.includes('\0')) throw new HttpError(400, 'bad-request', 'The address is not valid.');
-  return decoded === '/' ? '/index.html' : decoded;
+  return decoded;
 }
 
 async function isFile(path: string): Promise<boolean> {

@@ -1,0 +1,37 @@
+import type { FastifyInstance } from 'fastify';
+import { SignInRequest, z } from '../../schema/index';
+import { authenticateSession, requireRole } from '../auth';
+import { HttpError } from '../http-error';
+import { parseInput } from '../parse-input';
+import { hashPin, newOfflineVerifier } from '../pin-hash';
+import type { ServerContext } from '../server-context';
+
+const SetPinRequest = z.object({ personId: z.string().check(z.minLength(1), z.maxLength(64)), pin: SignInRequest.shape.pin });
+
+/** POST /api/v1/admin/pin (admin session) {personId, pin} → 204: sets a person's PIN and a new offline verifier. */
+export function registerAdminPinRoute(app: FastifyInstance, ctx: ServerContext): void {
+  app.post('/api/v1/admin/pin', async (request, reply) => {
+    const { person: admin } = await authenticateSession(ctx, request);
+    requireRole(admin, 'admin', 'set PINs');
+    const body = parseInput(SetPinRequest, request.body, 'PIN change');
+    const [adminRow, target] = await Promise.all([ctx.store.getSetup('person', admin.id), ctx.store.getSetup('person', body.personId)]);
+    if (!target || target.siteId !== adminRow?.siteId) throw new HttpError(400, 'bad-request', `Person "${body.personId}" is not part of this site.`);
+    await ctx.store.setPersonSecrets(await personSecrets(body.personId, body.pin, ctx.now()));
+    request.log.info({ by: admin.id, personId: body.personId }, 'PIN set');
+    return reply.code(204).send();
+  });
+}
+
+/** The stored secrets for a PIN: scrypt hash for the server, PBKDF2 verifier for the tablets. */
+export async function personSecrets(personId: string, pin: string, now: Date) {
+  const [hashed, verifier] = await Promise.all([hashPin(pin), newOfflineVerifier(pin)]);
+  return {
+    personId,
+    pinHash: hashed.hash,
+    pinSalt: hashed.salt,
+    verifierSalt: verifier.salt,
+    verifierHash: verifier.hash,
+    verifierIterations: verifier.iterations,
+    updatedAt: now.toISOString(),
+  };
+}
