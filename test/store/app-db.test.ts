@@ -2,7 +2,7 @@ import 'fake-indexeddb/auto';
 import { IDBFactory } from 'fake-indexeddb';
 import { openDB } from 'idb';
 import { afterEach, describe, expect, it } from 'vitest';
-import { DB_VERSION, openAppDb, saveDeviceRecord, countOutbox, type AppDb } from '../../src/store';
+import { DB_VERSION, openAppDb, saveDeviceRecord, type AppDb } from '../../src/store';
 import { makeSample } from './helpers';
 
 const toClose: { close(): void }[] = [];
