@@ -15,6 +15,8 @@ export interface PhaseParams {
   readonly method: SigmaMethod | 'given' | 'binomial' | 'poisson';
   /** Centre of the moving-range chart relative to sigma: d2(2) (mean MR) or 0.953873 (median MR). */
   readonly mrCentreFactor: number;
+  /** Pooled s̄ = √[Σ(nᵢ−1)sᵢ²/Σ(nᵢ−1)] when method is 'pooled' (X̄-S limits use it per point), else NaN. */
+  readonly pooledS: number;
 }
 
 export interface Estimate {
@@ -51,7 +53,7 @@ export function estimatePhase(kind: ChartKind, stats: SubgroupStats, from: numbe
     if ((kind === 'p' || kind === 'np') && centre === 1) warnings.push('Every item in the baseline is defective: limits cannot be computed.');
     const ok = centre > 0 && !((kind === 'p' || kind === 'np') && centre >= 1);
     const method = kind === 'p' || kind === 'np' ? 'binomial' : 'poisson';
-    return { params: ok ? { centre, sigma: NaN, method, mrCentreFactor: NaN } : null, used, warnings };
+    return { params: ok ? { centre, sigma: NaN, method, mrCentreFactor: NaN, pooledS: NaN } : null, used, warnings };
   }
 
   // Variable charts.
@@ -77,7 +79,8 @@ export function estimatePhase(kind: ChartKind, stats: SubgroupStats, from: numbe
   const sigma = estimateSigma(method, stats, from, to, warnings);
   if (sigma === null) return { params: null, used, warnings };
   const mrCentreFactor = method === 'mr-median' ? MEDIAN_MR_FACTOR : chartConstants(2).d2;
-  return { params: { centre, sigma, method, mrCentreFactor }, used, warnings };
+  const pooledS = method === 'pooled' ? pooledSd(stats, from, to) : NaN;
+  return { params: { centre, sigma, method, mrCentreFactor, pooledS }, used, warnings };
 }
 
 function estimateSigma(method: SigmaMethod, stats: SubgroupStats, from: number, to: number, warnings: string[]): number | null {
@@ -124,8 +127,7 @@ function estimateSigma(method: SigmaMethod, stats: SubgroupStats, from: number, 
       return null;
     }
     if (method === 'pooled') {
-      const sp2 = Math.sqrt(acc / dof);
-      sigma = sp2 / c4(dof + 1);
+      sigma = Math.sqrt(acc / dof) / c4(dof + 1); // s̄ₚ/c4(Σ(nᵢ−1)+1)
     } else {
       sigma = acc / k;
     }
@@ -135,6 +137,20 @@ function estimateSigma(method: SigmaMethod, stats: SubgroupStats, from: number, 
     return null;
   }
   return sigma;
+}
+
+/** √[Σ(nᵢ−1)sᵢ²/Σ(nᵢ−1)] over the included subgroups of size ≥ 2 (s from the spread column). */
+function pooledSd(stats: SubgroupStats, from: number, to: number): number {
+  let acc = 0;
+  let dof = 0;
+  for (let i = from; i < to; i++) {
+    const n = stats.size[i]!;
+    const s = stats.spread[i]!;
+    if (stats.excluded[i] || n < 2 || !Number.isFinite(s)) continue;
+    acc += (n - 1) * s * s;
+    dof += n - 1;
+  }
+  return Math.sqrt(acc / dof);
 }
 
 export function median(xs: number[]): number {

@@ -136,12 +136,12 @@ export class Evaluator {
     if (!g) return;
     if (isAttributeChart(this.kind)) {
       const ok = g.centre > 0 && ((this.kind !== 'p' && this.kind !== 'np') || g.centre < 1);
-      if (ok) state.params = { centre: g.centre, sigma: NaN, method: 'given', mrCentreFactor: NaN };
+      if (ok) state.params = { centre: g.centre, sigma: NaN, method: 'given', mrCentreFactor: NaN, pooledS: NaN };
       else state.warnings = [`The given centre ${g.centre} is not a usable ${this.kind === 'p' || this.kind === 'np' ? 'proportion (0 < p̄ < 1)' : 'rate (> 0)'}: limits cannot be computed.`];
     } else if (g.sigma === undefined) {
       state.warnings = ['Given limits for a measured characteristic need a sigma: limits cannot be computed.'];
     } else {
-      state.params = { centre: g.centre, sigma: g.sigma, method: 'given', mrCentreFactor: 1.1283791670955126 };
+      state.params = { centre: g.centre, sigma: g.sigma, method: 'given', mrCentreFactor: 1.1283791670955126, pooledS: NaN }; // MR centre d2(2)·σ
     }
   }
 

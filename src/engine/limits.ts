@@ -40,13 +40,16 @@ export function computeLimits(kind: ChartKind, p: PhaseParams, n: number, out: L
       return;
     }
     case 'xbar-s': {
-      setShewhart(out, c, p.sigma / Math.sqrt(n), -Infinity, Infinity);
+      // Pooled s̄ with varying nᵢ (Montgomery §6.3): X̿ ± A3(nᵢ)·s̄, S limits B3(nᵢ)·s̄ and B4(nᵢ)·s̄,
+      // i.e. sigma taken as s̄/c4(nᵢ) at each point. Otherwise the phase's sigma throughout.
+      const sigma = p.method === 'pooled' && n >= 2 ? p.pooledS / c4(n) : p.sigma;
+      setShewhart(out, c, sigma / Math.sqrt(n), -Infinity, Infinity);
       if (n >= 2) {
         const k = c4(n);
         const w = 3 * Math.sqrt(1 - k * k);
-        out.cCentre = k * p.sigma; // s̄ = c4·σ
-        out.cUcl = (k + w) * p.sigma; // B4·s̄ = B6·σ
-        out.cLcl = Math.max(0, k - w) * p.sigma; // B3·s̄ = B5·σ
+        out.cCentre = k * sigma; // s̄ = c4·σ
+        out.cUcl = (k + w) * sigma; // B4·s̄ = B6·σ
+        out.cLcl = Math.max(0, k - w) * sigma; // B3·s̄ = B5·σ
       }
       return;
     }

@@ -23,6 +23,7 @@ export function planPhases(phases: readonly PhaseInput[] | undefined): PhasePlan
     const prev = plans[index - 1];
     if (prev && start <= prev.start) throw new EngineInputError(`phase ${index}: starts at ${start}, not after phase ${index - 1} (${prev.start})`);
     const next = list[index + 1];
+    if (next && !(next.start > start)) throw new EngineInputError(`phase ${index + 1}: starts at ${next.start}, not after phase ${index} (${start})`);
     const end = next ? next.start : Infinity;
     const baselineStart = input.baselineStart ?? start;
     if (!Number.isInteger(baselineStart) || baselineStart < start || baselineStart >= end) {

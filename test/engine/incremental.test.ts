@@ -1,0 +1,57 @@
+import { describe, expect, it } from 'vitest';
+import { analyze, Evaluator, type AnalysisInput } from '../../src/engine';
+import { PISTON_RINGS } from './fixtures/piston-rings';
+import { CONCENTRATION } from './fixtures/concentration';
+
+// A deterministic pseudo-random sequence (no Math.random in tests).
+function lcg(seed: number): () => number {
+  let s = seed >>> 0;
+  return () => ((s = (Math.imul(s, 1664525) + 1013904223) >>> 0) / 2 ** 32);
+}
+
+function appendOneByOne(input: AnalysisInput) {
+  const { subgroups, ...config } = input;
+  const ev = new Evaluator(config);
+  const froms: number[] = [];
+  for (const sg of subgroups) froms.push(ev.append(sg).from);
+  return { result: ev.analysis(), froms };
+}
+
+describe('Evaluator (incremental)', () => {
+  const next = lcg(42);
+  const xs = Array.from({ length: 120 }, (_, i) => 10 + next() * 2 + (i > 90 ? 1.5 : 0));
+  const inputs: AnalysisInput[] = [
+    { chart: 'xmr', subgroups: xs.map((x) => ({ values: [x] })), phases: [{ start: 0, baselineCount: 25 }, { start: 60, baselineCount: 20 }], rules: ['n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8'] },
+    { chart: 'xmr', subgroups: CONCENTRATION.map((x, i) => ({ values: [x], excluded: i === 3 })) },
+    { chart: 'xbar-r', subgroups: PISTON_RINGS.map((values) => ({ values })), phases: [{ start: 0, baselineCount: 12 }] },
+    { chart: 'ewma', subgroups: xs.map((x) => ({ values: [x] })), ewma: { lambda: 0.2, L: 2.962 }, phases: [{ start: 0, baselineCount: 30 }] },
+    { chart: 'cusum', subgroups: xs.map((x) => ({ values: [x] })), cusum: { k: 0.5, h: 4 }, phases: [{ start: 0, baselineCount: 30 }] },
+    { chart: 'p', subgroups: xs.map((x, i) => ({ count: Math.round(x), size: 50 + (i % 7) })), phases: [{ start: 0, baselineCount: 25 }] },
+  ];
+
+  for (const input of inputs) {
+    it(`gives the same result appended one at a time as in one batch (${input.chart})`, () => {
+      const batch = analyze(input);
+      const { result } = appendOneByOne(input);
+      expect(result).toEqual(batch);
+    });
+  }
+
+  it('recomputes only inside a baseline; after it, each append touches only the new point', () => {
+    const { froms } = appendOneByOne(inputs[0]!);
+    // Within the first baseline (0..24) limits change, so the phase is re-evaluated from 0.
+    expect(froms.slice(0, 25)).toEqual(Array.from({ length: 25 }, () => 0));
+    expect(froms.slice(25, 60)).toEqual(Array.from({ length: 35 }, (_, i) => 25 + i));
+    expect(froms.slice(60, 80)).toEqual(Array.from({ length: 20 }, () => 60));
+    expect(froms.slice(80)).toEqual(Array.from({ length: 40 }, (_, i) => 80 + i));
+  });
+
+  it('returns copies from analysis() unless asked for live arrays', () => {
+    const ev = new Evaluator({ chart: 'xmr' });
+    ev.append({ values: [1] });
+    const snap = ev.analysis();
+    ev.append({ values: [2] });
+    expect(snap.points).toHaveLength(1);
+    expect(ev.analysis().points).toHaveLength(2);
+  });
+});
