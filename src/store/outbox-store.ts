@@ -119,6 +119,16 @@ export function markRejected(db: AppDb, ids: readonly string[], reason: string):
   );
 }
 
+/**
+ * Puts rejected rows back in the queue, for a person's "send again" after the cause was fixed (e.g. the
+ * set-up the server was missing now exists). Conflicts are not re-queued: the server keeps its version.
+ */
+export function requeueRejected(db: AppDb, ids: readonly string[], now: number): Promise<number> {
+  return updateRows(db, ids, 'The outbox update', (row) =>
+    row.state === 'rejected' ? { ...row, state: 'pending', attempts: 0, nextAttemptAt: now } : undefined,
+  );
+}
+
 async function idsInState(db: AppDb, state: OutboxRow['state']): Promise<string[]> {
   const range = IDBKeyRange.bound([state, -Infinity], [state, Infinity]);
   return db.getAllKeysFromIndex('outbox', 'byStateSeq', range);

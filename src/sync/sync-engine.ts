@@ -117,6 +117,11 @@ class RunFailure extends Error {
   }
 }
 
+/** Statuses that blame the request body; a missing status (client-side validation) counts too. */
+function isContentRefusal(status: number | undefined): boolean {
+  return status === undefined || status === 400 || status === 413 || status === 422;
+}
+
 function defaultLocks(): LockManagerLike | null {
   const nav = (globalThis as { navigator?: { locks?: LockManagerLike } }).navigator;
   return nav?.locks ?? null;
@@ -214,8 +219,10 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         response = await api.pushRecords(token, { batchId: newBatchId(), records: items.map((i) => i.record) });
       } catch (e) {
         const error = e instanceof ApiError ? e : new ApiError('bad-response', e instanceof Error ? e.message : String(e));
-        if (error.code === 'rejected') {
-          // The whole request was refused (4xx): split it until the record at fault stands alone (sync.md §3.4).
+        if (error.code === 'rejected' && isContentRefusal(error.details.status)) {
+          // The whole request was refused for its content (400/413/422): split it until the record at fault
+          // stands alone (sync.md §3.4). Other 4xx (404 from a wrong address, 409, 410) retry later instead,
+          // so a misconfigured server can never turn the whole outbox into rejections.
           if (items.length > 1) {
             await markSendFailed(db, ids, error.message, now());
             const half = Math.ceil(items.length / 2);
@@ -293,8 +300,9 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       await resetSendingOnStart(db);
       const identity = await getDeviceIdentity(db);
       if (!identity) throw new RunFailure('not-enrolled', 'This tablet is not enrolled with a sync server yet.');
-      toPush = (await countOutbox(db)).pending;
-      progress();
+      const counts = await readCounts();
+      toPush = counts.pending;
+      emit({ ...counts, progress: { pushed, toPush, pulled } });
       await pushAll(identity.deviceToken);
       // After an epoch change seen by the pull, re-send, then pull again (bounded by MAX_EPOCH_CHANGES_PER_RUN).
       while (await pullAll(identity.deviceToken)) await pushAll(identity.deviceToken);

@@ -9,6 +9,7 @@ import {
   listOutboxProblems,
   markSendFailed,
   markSending,
+  requeueRejected,
   resetSendingOnStart,
   saveDeviceRecord,
 } from '../../src/store';
@@ -99,5 +100,15 @@ describe('outbox store', () => {
     expect(await getOutboxRow(db, a)).toMatchObject({ state: 'pending', nextAttemptAt: 5_000, attempts: 0 });
     expect((await getOutboxRow(db, b))?.state).toBe('pending');
     expect(await getPullState(db)).toEqual({ cursor: 0, serverEpoch: 'e2' });
+  });
+
+  it('re-queues rejected rows on request, but never conflicts', async () => {
+    const { db, samples } = await dbWith(2);
+    const [a, b] = samples.map((s) => s.id) as [string, string];
+    await markSending(db, [a, b], 1_000);
+    await applyPushResults(db, [{ id: a, status: 'rejected', reason: 'Unknown characteristic' }, { id: b, status: 'conflict' }], 'e', 1_000);
+    expect(await requeueRejected(db, [a, b], 7_000)).toBe(1);
+    expect(await getOutboxRow(db, a)).toMatchObject({ state: 'pending', attempts: 0, nextAttemptAt: 7_000 });
+    expect((await getOutboxRow(db, b))?.state).toBe('conflict');
   });
 });

@@ -254,6 +254,18 @@ describe('sync engine', () => {
     expect(await getOutboxRow(h.db, badId)).toMatchObject({ state: 'rejected', lastError: expect.stringMatching(/too large/) });
   });
 
+  it('does not turn the outbox into rejections when the push route answers 404 (wrong address)', async () => {
+    const h = await harness();
+    const ids = await saveSamples(h, 3);
+    const api = createApiClient({ baseUrl: 'http://sync.test/wrong/prefix', fetch: h.server.fetch });
+    const h2 = await harness({ api }, h.db, h.server);
+    const report = await h2.engine.syncNow();
+    expect(report.error?.code).toBe('rejected');
+    expect(report.rejected).toBe(0);
+    for (const id of ids) expect((await getOutboxRow(h.db, id))?.state).toBe('pending');
+    expect(h2.engine.getStatus()).toMatchObject({ state: 'error', pending: 3, rejected: 0 });
+  });
+
   it('stops with a clear error when the device token is refused, keeping the rows pending', async () => {
     const h = await harness();
     await saveSamples(h, 2);
