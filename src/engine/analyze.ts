@@ -1,4 +1,6 @@
 /** The engine's facade: one JSON-serialisable description in, one JSON-serialisable result out. */
+import { studyCapability } from './capability';
+import { isAttributeChart } from './estimate';
 import { Evaluator } from './evaluator';
 import type { Analysis, AnalysisInput } from './types';
 
@@ -10,5 +12,17 @@ import type { Analysis, AnalysisInput } from './types';
 export function analyze(input: AnalysisInput): Analysis {
   const ev = new Evaluator(input);
   ev.appendMany(input.subgroups);
-  return ev.analysis(true);
+  return withCapability(ev, input);
+}
+
+/** The evaluator's current result plus capability when the input has a specification. */
+export function withCapability(ev: Evaluator, input: Omit<AnalysisInput, 'subgroups'>): Analysis {
+  const a = ev.analysis(true);
+  const spec = input.spec;
+  if (!spec || (spec.lsl === undefined && spec.usl === undefined)) return a;
+  if (isAttributeChart(input.chart)) return { ...a, warnings: [...a.warnings, 'Capability indices need measured values: not computed for an attribute chart.'] };
+  const phase = a.phases[a.phases.length - 1];
+  if (!phase) return a;
+  const capability = studyCapability({ kind: input.chart, stats: ev.subgroupStats, phase, signals: a.signals, spec, sigmaMethod: input.sigmaMethod, confidence: input.confidence ?? 0.95 });
+  return { ...a, capability };
 }

@@ -1,7 +1,10 @@
-export { analyze } from './analyze';
+export { analyze, withCapability } from './analyze';
 export { Evaluator, DEFAULT_RULES, PROVISIONAL_BELOW, type AppendResult, type EvaluatorConfig } from './evaluator';
 export { EngineInputError } from './subgroup-stats';
 export { chartConstants, c4, MEDIAN_MR_FACTOR, type ChartConstants } from './constants';
 export { normalCdf, normalPdf, normalQuantile } from './normal';
-export { chiSquareCdf, chiSquareQuantile } from './gamma';
+export { chiSquareCdf, chiSquareQuantile, lnGamma } from './gamma';
+export { andersonDarling } from './anderson-darling';
+export { bissellInterval, capabilityIndices, chiSquareInterval, cpm, expectedPpm } from './capability-indices';
+export { ALL_RULES } from './rules';
 export type * from './types';
