@@ -44,6 +44,8 @@ export class FakeSyncServer {
   fail503 = 0;
   /** Per-record rejection: a reason to reject, or undefined to accept. */
   rejectRecord: (record: DeviceRecord) => string | undefined = () => undefined;
+  /** Control switch: with dedup off the server stores every copy it receives (must make the checks fail). */
+  dedup = true;
   /** Pause inside a push (ms) so overlapping requests can be seen. */
   pushDelayMs = 0;
 
@@ -142,7 +144,7 @@ export class FakeSyncServer {
         if (!parsed.success) return { id, status: 'rejected', reason: 'invalid record' };
         const reason = this.rejectRecord(parsed.data);
         if (reason) return { id, status: 'rejected', reason };
-        const held = this.records.get(id);
+        const held = this.dedup ? this.records.get(id) : undefined;
         if (held) {
           return held.json === canonical(parsed.data)
             ? { id, status: 'duplicate', serverSeq: held.serverSeq }
