@@ -65,6 +65,12 @@ function idOf(raw: unknown, index: number): string {
   return typeof id === 'string' && id.length > 0 && id.length <= 64 ? id : `#${index}`;
 }
 
+/** The person a record names and the device clock time it carries (for the audit columns). */
+export function recordActor(record: DeviceRecord): { personId: string; clientTime: string } {
+  const { personId, clientTime } = actorOf(record);
+  return { personId, clientTime };
+}
+
 function actorOf(record: DeviceRecord): { personId: string; clientTime: string; minimumRole: Role; action: string } {
   switch (record.kind) {
     case 'sample':

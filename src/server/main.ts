@@ -1,0 +1,79 @@
+/**
+ * Starts the sync server: `node --import tsx src/server/main.ts [--demo] [--port 8080] [--db path] [--host 0.0.0.0] [--dist dir]`.
+ * With --demo the database (default ./data/plumbline-demo.sqlite) is seeded with the demo site
+ * when it is new, and a fresh enrolment code and the demo people's PINs are printed.
+ */
+import { existsSync, mkdirSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
+import { parseArgs } from 'node:util';
+import { createServer } from './create-server';
+import { hasDemo, seedDemo } from './demo/seed-demo';
+import { DEMO_PEOPLE, DEMO_SITE_ID, DEMO_SITE_NAME } from './demo/demo-site';
+import { issueEnrolmentCode } from './routes/admin-enrolment-codes';
+import { openSqliteStore } from './store/sqlite-store';
+
+const DEMO_CODE_MINUTES = 24 * 60;
+
+async function main(): Promise<void> {
+  const { values } = parseArgs({
+    options: {
+      demo: { type: 'boolean', default: false },
+      port: { type: 'string', default: '8080' },
+      host: { type: 'string', default: '0.0.0.0' },
+      db: { type: 'string' },
+      dist: { type: 'string', default: 'dist' },
+    },
+    strict: true,
+  });
+  const port = Number(values.port);
+  if (!Number.isInteger(port) || port < 0 || port > 65535) throw new Error(`--port must be a port number, not "${values.port}".`);
+  if (process.env.DATABASE_URL) {
+    throw new Error('DATABASE_URL is set, but the PostgreSQL store is not available yet; unset it to use SQLite.');
+  }
+
+  const dbPath = resolve(values.db ?? (values.demo ? 'data/plumbline-demo.sqlite' : 'data/plumbline.sqlite'));
+  mkdirSync(dirname(dbPath), { recursive: true });
+  const store = openSqliteStore(dbPath);
+  let seededNow = false;
+  if (values.demo && !(await hasDemo(store))) {
+    const history = await seedDemo(store, new Date());
+    seededNow = true;
+    console.log(`Seeded the demo: ${history.samples.length} samples, ${history.responses.length} responses, ${history.acks.length} acknowledgements.`);
+  }
+
+  const distDir = resolve(values.dist);
+  if (!existsSync(resolve(distDir, 'index.html'))) console.warn(`No built app in ${distDir}: run "npm run build" first (the API works without it).`);
+  const app = createServer({ store, distDir, logger: { level: process.env.LOG_LEVEL ?? 'info' } });
+  await app.listen({ host: values.host, port });
+  const address = app.server.address();
+  const actualPort = typeof address === 'object' && address ? address.port : port;
+
+  const lines = [`Plumbline sync server listening on http://localhost:${actualPort}  (all interfaces: ${values.host}:${actualPort})`, `Database: ${dbPath}`];
+  if (values.demo) {
+    const { code, expiresAt } = await issueEnrolmentCode(store, DEMO_SITE_ID, 'p-marguerite', new Date(), DEMO_CODE_MINUTES);
+    lines.push(
+      '',
+      `Demo site: ${DEMO_SITE_NAME}${seededNow ? ' (seeded just now)' : ''}`,
+      `Enrolment code (one use, valid until ${expiresAt}):  ${code}`,
+      '',
+      'People (login / PIN / role):',
+      ...DEMO_PEOPLE.map((p) => `  ${p.login.padEnd(12)} ${p.pin.padEnd(6)} ${p.role.padEnd(11)} ${p.name}`),
+    );
+  }
+  const width = Math.max(...lines.map((l) => l.length));
+  const rule = '='.repeat(width);
+  console.log(['', rule, ...lines, rule, ''].join('\n'));
+
+  const stop = async () => {
+    await app.close();
+    await store.close();
+    process.exit(0);
+  };
+  process.once('SIGINT', () => void stop());
+  process.once('SIGTERM', () => void stop());
+}
+
+main().catch((error: unknown) => {
+  console.error(error instanceof Error ? error.message : error);
+  process.exit(1);
+});
