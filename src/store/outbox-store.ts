@@ -199,6 +199,18 @@ export async function listOutboxProblems(db: AppDb): Promise<OutboxRow[]> {
   return [...(rejected ?? []), ...(conflict ?? [])].sort((a, b) => a.deviceSeq - b.deviceSeq);
 }
 
+/**
+ * Outbox state per record id, for the two badges "saved on tablet" / "synced" (sync.md §0): an id with
+ * no entry was not made on this tablet (pulled from the server, so synced by definition).
+ */
+export async function getOutboxStates(db: AppDb, ids: readonly string[]): Promise<Map<string, OutboxRow['state']>> {
+  const store = db.transaction('outbox').store;
+  const rows = await Promise.all(ids.map((id) => store.get(id)));
+  const states = new Map<string, OutboxRow['state']>();
+  for (const row of rows) if (row) states.set(row.id, row.state);
+  return states;
+}
+
 export async function getOutboxRow(db: AppDb, id: string): Promise<OutboxRow | undefined> {
   return db.get('outbox', id);
 }

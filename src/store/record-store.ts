@@ -72,6 +72,15 @@ export async function getResponsesForCharacteristic(db: AppDb, characteristicId:
   return db.getAllFromIndex('responses', 'byCharacteristic', characteristicId);
 }
 
+export async function getResponsesForSample(db: AppDb, sampleId: string): Promise<Response[]> {
+  return db.getAllFromIndex('responses', 'bySample', sampleId);
+}
+
+/** Every sample on this tablet, ordered by characteristic, then takenAt, then id. */
+export async function getAllSamples(db: AppDb): Promise<Sample[]> {
+  return db.getAllFromIndex('samples', 'byCharacteristicTakenAt');
+}
+
 export async function getAcksForCharacteristic(db: AppDb, characteristicId: string): Promise<Acknowledgement[]> {
   return db.getAllFromIndex('acks', 'byCharacteristic', characteristicId);
 }

@@ -4,6 +4,7 @@ import {
   applyPushResults,
   countOutbox,
   getOutboxRow,
+  getOutboxStates,
   getPullState,
   listDueOutbox,
   listOutboxProblems,
@@ -110,5 +111,14 @@ describe('outbox store', () => {
     expect(await requeueRejected(db, [a, b], 7_000)).toBe(1);
     expect(await getOutboxRow(db, a)).toMatchObject({ state: 'pending', attempts: 0, nextAttemptAt: 7_000 });
     expect((await getOutboxRow(db, b))?.state).toBe('conflict');
+  });
+
+  it('tells the outbox state per id, and nothing for records not made here', async () => {
+    const { db, samples } = await dbWith(2);
+    const [a, b] = samples.map((s) => s.id) as [string, string];
+    await markSending(db, [a], 1_000);
+    await applyPushResults(db, [{ id: a, status: 'stored', serverSeq: 1 }], 'e', 1_000);
+    const states = await getOutboxStates(db, [a, b, '01900000-0000-7000-8000-000000000001']);
+    expect([...states]).toEqual([[a, 'acked'], [b, 'pending']]);
   });
 });

@@ -3,6 +3,8 @@ import {
   StoreError,
   countOutbox,
   getAcksForCharacteristic,
+  getAllSamples,
+  getResponsesForSample,
   getCurrentSamplesForCharacteristic,
   getDeviceRecord,
   getDeviceSeq,
@@ -48,6 +50,8 @@ describe('saveDeviceRecord()', () => {
     expect(await countOutbox(db)).toEqual({ pending: 3, rejected: 0, conflict: 0, acked: 0 });
     expect(await getResponsesForCharacteristic(db, 'bore-dia')).toEqual([r]);
     expect(await getAcksForCharacteristic(db, 'bore-dia')).toEqual([a]);
+    expect(await getResponsesForSample(db, s.id)).toEqual([r]);
+    expect(await getAllSamples(db)).toEqual([s]);
   });
 
   it('rejects invalid input with a clear message and writes nothing', async () => {
