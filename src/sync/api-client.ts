@@ -48,6 +48,8 @@ export interface PullPage {
   entries: unknown[];
   next: number;
   hasMore: boolean;
+  /** The server's HTTP Date header (ms), for the clock-offset estimate (sync.md §2.7); absent if not sent. */
+  serverDateMs?: number;
 }
 
 const PullEnvelope = z.object({
@@ -65,6 +67,14 @@ interface CallOptions {
 }
 
 async function call<T>(config: ApiConfig, options: CallOptions, schema: z.ZodMiniType<T>): Promise<T> {
+  return (await callWithDate(config, options, schema)).data;
+}
+
+async function callWithDate<T>(
+  config: ApiConfig,
+  options: CallOptions,
+  schema: z.ZodMiniType<T>,
+): Promise<{ data: T; serverDateMs?: number }> {
   const doFetch = config.fetch ?? globalThis.fetch;
   const now = config.now ?? Date.now;
   const headers: Record<string, string> = { [PROTOCOL_HEADER]: String(PROTOCOL_VERSION), accept: 'application/json' };
@@ -114,7 +124,8 @@ async function call<T>(config: ApiConfig, options: CallOptions, schema: z.ZodMin
   if (!parsed.success) {
     throw new ApiError('bad-response', `The sync server's answer has the wrong shape:\n${describeIssues(parsed.error)}`, { status });
   }
-  return parsed.data;
+  const serverDateMs = Date.parse(response.headers.get('date') ?? '');
+  return { data: parsed.data, ...(Number.isNaN(serverDateMs) ? {} : { serverDateMs }) };
 }
 
 function checkRequest<T>(schema: z.ZodMiniType<T>, value: unknown, what: string): T {
@@ -145,9 +156,10 @@ export function pushRecords(
 }
 
 /** GET /sync/pull?after=N&limit=M: the next page of the server's log. */
-export function pullEntries(config: ApiConfig, deviceToken: string, after: number, limit: number = MAX_PULL_PAGE): Promise<PullPage> {
+export async function pullEntries(config: ApiConfig, deviceToken: string, after: number, limit: number = MAX_PULL_PAGE): Promise<PullPage> {
   const path = `/sync/pull?after=${encodeURIComponent(String(after))}&limit=${encodeURIComponent(String(limit))}`;
-  return call(config, { method: 'GET', path, token: deviceToken }, PullEnvelope);
+  const { data, serverDateMs } = await callWithDate(config, { method: 'GET', path, token: deviceToken }, PullEnvelope);
+  return { ...data, ...(serverDateMs !== undefined ? { serverDateMs } : {}) };
 }
 
 /** The calls the sync engine needs; a fake can stand in for tests. */

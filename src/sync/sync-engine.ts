@@ -35,6 +35,10 @@ export interface SyncStatus {
   lastSuccessAt: number | null;
   lastError: string | null;
   lastErrorCode: SyncErrorCode | null;
+  /** Server clock minus tablet clock (ms) from the last pull's Date header; null until known. */
+  clockOffsetMs: number | null;
+  /** The tablet clock is off by more than CLOCK_SKEW_LIMIT_MS: show it and flag it (sync.md §2.7). */
+  isClockSkewed: boolean;
   progress?: { pushed: number; toPush: number; pulled: number };
 }
 
@@ -101,6 +105,9 @@ export interface SyncEngine {
   subscribe(listener: (status: SyncStatus) => void): () => void;
 }
 
+/** Clock offsets beyond this are flagged (sync.md §2.7 suggests about 2 minutes). */
+export const CLOCK_SKEW_LIMIT_MS = 2 * 60_000;
+
 /** Name of the Web Lock that makes one tab at a time the sender (sync.md §2.14). */
 export const SENDER_LOCK = 'plumbline-outbox-sender';
 /** How often one run may see the epoch change before it gives up (a server flapping between epochs). */
@@ -156,6 +163,8 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
     lastSuccessAt: null,
     lastError: null,
     lastErrorCode: null,
+    clockOffsetMs: null,
+    isClockSkewed: false,
   };
   const listeners = new Set<(s: SyncStatus) => void>();
   let running: Promise<SyncReport> | null = null;
@@ -274,6 +283,11 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       let mustPushAgain = false;
       for (;;) {
         const page = await api.pullEntries(token, cursor, pullLimit);
+        if (page.serverDateMs !== undefined) {
+          // The Date header has 1 s resolution: offsets under a second are noise, not skew.
+          const clockOffsetMs = page.serverDateMs - now();
+          emit({ clockOffsetMs, isClockSkewed: Math.abs(clockOffsetMs) > CLOCK_SKEW_LIMIT_MS });
+        }
         if (page.serverEpoch !== serverEpoch) {
           const askedFrom = cursor;
           if (await noteEpoch(page.serverEpoch)) mustPushAgain = true;

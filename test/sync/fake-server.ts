@@ -44,6 +44,8 @@ export class FakeSyncServer {
   fail503 = 0;
   /** Per-record rejection: a reason to reject, or undefined to accept. */
   rejectRecord: (record: DeviceRecord) => string | undefined = () => undefined;
+  /** When set, answers carry an HTTP Date header from this clock. */
+  serverClock: (() => number) | undefined = undefined;
   /** Control switch: with dedup off the server stores every copy it receives (must make the checks fail). */
   dedup = true;
   /** Pause inside a push (ms) so overlapping requests can be seen. */
@@ -102,8 +104,9 @@ export class FakeSyncServer {
     if (this.offline) throw new TypeError('fetch failed');
     const url = new URL(typeof input === 'string' ? input : input instanceof URL ? input.href : input.url);
     const headers = new Headers(init?.headers);
+    const date: Record<string, string> = this.serverClock ? { date: new Date(this.serverClock()).toUTCString() } : {};
     const json = (status: number, body: unknown, extra: Record<string, string> = {}) =>
-      new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json', ...extra } });
+      new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json', ...date, ...extra } });
     if (this.fail503 > 0) {
       this.fail503 -= 1;
       return json(503, { error: 'unavailable', message: 'Try later' }, { 'retry-after': '2' });

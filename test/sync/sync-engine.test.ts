@@ -266,6 +266,16 @@ describe('sync engine', () => {
     expect(h2.engine.getStatus()).toMatchObject({ state: 'error', pending: 3, rejected: 0 });
   });
 
+  it('estimates the clock offset from the server Date header and flags a skew over 2 minutes', async () => {
+    const h = await harness();
+    h.server.serverClock = () => h.clock.now + 30_000;
+    await h.engine.syncNow();
+    expect(h.engine.getStatus()).toMatchObject({ clockOffsetMs: 30_000, isClockSkewed: false });
+    h.server.serverClock = () => h.clock.now - 5 * 60_000;
+    await h.engine.syncNow();
+    expect(h.engine.getStatus()).toMatchObject({ clockOffsetMs: -300_000, isClockSkewed: true });
+  });
+
   it('stops with a clear error when the device token is refused, keeping the rows pending', async () => {
     const h = await harness();
     await saveSamples(h, 2);
