@@ -39,6 +39,8 @@ export async function authenticateDevice(ctx: ServerContext, request: FastifyReq
 export interface SignedIn {
   readonly session: SessionRow;
   readonly person: Person;
+  /** The site the person belongs to: every change they make is limited to it. */
+  readonly siteId: string;
 }
 
 /** The person signed in by the session token header; 401 when missing, unknown, expired or the person is no longer active. */
@@ -52,7 +54,9 @@ export async function authenticateSession(ctx: ServerContext, request: FastifyRe
   if (Date.parse(session.expiresAt) <= ctx.now().getTime()) {
     throw new HttpError(401, 'session-expired', 'The session has expired; sign in again.');
   }
-  const person = (await ctx.store.getSetup('person', session.personId))?.body;
-  if (!person?.active) throw new HttpError(401, 'unauthenticated', 'The person of this session is no longer active; sign in again.');
-  return { session, person };
+  const device = await ctx.store.getDevice(session.deviceId);
+  if (!device || device.revokedAt !== null) throw new HttpError(401, 'device-revoked', 'The tablet of this session has been withdrawn; enrol it again.');
+  const person = await ctx.store.getSetup('person', session.personId);
+  if (!person?.body.active) throw new HttpError(401, 'unauthenticated', 'The person of this session is no longer active; sign in again.');
+  return { session, person: person.body, siteId: person.siteId };
 }

@@ -2,6 +2,7 @@ import Fastify, { type FastifyError, type FastifyInstance, type FastifyServerOpt
 import { PROTOCOL_HEADER, PROTOCOL_VERSION } from '../schema/index';
 import { HttpError } from './http-error';
 import { RateLimiter } from './rate-limiter';
+import { registerAdminDevicesRoutes } from './routes/admin-devices';
 import { registerAdminEnrolmentCodesRoute } from './routes/admin-enrolment-codes';
 import { registerAdminPinRoute } from './routes/admin-pin';
 import { registerEnrolRoute } from './routes/enrol';
@@ -91,6 +92,7 @@ export function createServer(options: CreateServerOptions): FastifyInstance {
   registerSyncPullRoute(app, ctx);
   registerAdminEnrolmentCodesRoute(app, ctx);
   registerAdminPinRoute(app, ctx);
+  registerAdminDevicesRoutes(app, ctx);
   registerSetupRoute(app, ctx);
   return app;
 }

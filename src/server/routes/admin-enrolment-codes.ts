@@ -1,7 +1,6 @@
 import type { FastifyInstance } from 'fastify';
 import { z } from '../../schema/index';
 import { authenticateSession, requireRole } from '../auth';
-import { HttpError } from '../http-error';
 import { parseInput } from '../parse-input';
 import type { ServerContext } from '../server-context';
 import type { ServerStore } from '../store/server-store';
@@ -34,11 +33,9 @@ export async function issueEnrolmentCode(
 /** POST /api/v1/admin/enrolment-codes (admin session) → {code, expiresAt}. Body: optional {ttlMinutes}. */
 export function registerAdminEnrolmentCodesRoute(app: FastifyInstance, ctx: ServerContext): void {
   app.post('/api/v1/admin/enrolment-codes', async (request, reply): Promise<EnrolmentCodeIssued> => {
-    const { person } = await authenticateSession(ctx, request);
+    const { person, siteId } = await authenticateSession(ctx, request);
     requireRole(person, 'admin', 'create enrolment codes');
     const body = parseInput(CreateCodeRequest, request.body ?? {}, 'enrolment code request');
-    const siteId = (await ctx.store.getSetup('person', person.id))?.siteId;
-    if (!siteId) throw new HttpError(403, 'forbidden', 'The signed-in person belongs to no site.');
     const issued = await issueEnrolmentCode(ctx.store, siteId, person.id, ctx.now(), body.ttlMinutes);
     request.log.info({ by: person.id, expiresAt: issued.expiresAt }, 'enrolment code issued');
     reply.code(201);

@@ -11,11 +11,11 @@ const SetPinRequest = z.object({ personId: z.string().check(z.minLength(1), z.ma
 /** POST /api/v1/admin/pin (admin session) {personId, pin} → 204: sets a person's PIN and a new offline verifier. */
 export function registerAdminPinRoute(app: FastifyInstance, ctx: ServerContext): void {
   app.post('/api/v1/admin/pin', async (request, reply) => {
-    const { person: admin } = await authenticateSession(ctx, request);
+    const { person: admin, siteId } = await authenticateSession(ctx, request);
     requireRole(admin, 'admin', 'set PINs');
     const body = parseInput(SetPinRequest, request.body, 'PIN change');
-    const [adminRow, target] = await Promise.all([ctx.store.getSetup('person', admin.id), ctx.store.getSetup('person', body.personId)]);
-    if (!target || target.siteId !== adminRow?.siteId) throw new HttpError(400, 'bad-request', `Person "${body.personId}" is not part of this site.`);
+    const target = await ctx.store.getSetup('person', body.personId);
+    if (!target || target.siteId !== siteId) throw new HttpError(400, 'bad-request', `Person "${body.personId}" is not part of this site.`);
     await ctx.store.setPersonSecrets(await personSecrets(body.personId, body.pin, ctx.now()));
     request.log.info({ by: admin.id, personId: body.personId }, 'PIN set');
     return reply.code(204).send();

@@ -31,10 +31,8 @@ export interface SetupChangeResponse {
  */
 export function registerSetupRoute(app: FastifyInstance, ctx: ServerContext): void {
   app.post('/api/v1/setup', async (request): Promise<SetupChangeResponse> => {
-    const { person } = await authenticateSession(ctx, request);
+    const { person, siteId } = await authenticateSession(ctx, request);
     const { entries } = parseInput(SetupChangeRequest, request.body, 'set-up change');
-    const siteId = (await ctx.store.getSetup('person', person.id))?.siteId;
-    if (!siteId) throw new HttpError(403, 'forbidden', 'The signed-in person belongs to no site.');
 
     const inBatch = new Set<string>();
     for (const entry of entries) {

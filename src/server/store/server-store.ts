@@ -30,6 +30,10 @@ export interface ServerStore {
    */
   redeemEnrolmentCode(codeHash: string, now: string, device: NewDevice): Promise<RedeemResult>;
   findDeviceByTokenHash(tokenHash: string): Promise<DeviceRow | undefined>;
+  getDevice(id: string): Promise<DeviceRow | undefined>;
+  listDevices(siteId: string): Promise<DeviceRow[]>;
+  /** Withdraws a device: its token stops working at once. Returns false if there is no such device. */
+  revokeDevice(id: string, at: string): Promise<boolean>;
   /** Registers a device directly (the demo seeder's own device); fails if the id exists. */
   createDevice(device: NewDevice & { siteId: string }): Promise<void>;
 

@@ -177,10 +177,23 @@ export class SqliteStore implements ServerStore {
   }
 
   async findDeviceByTokenHash(tokenHash: string): Promise<DeviceRow | undefined> {
-    const r = this.db
-      .prepare(`SELECT id, site_id, name, enrolled_at, revoked_at FROM devices WHERE token_hash = ?`)
-      .get(tokenHash) as { id: string; site_id: string; name: string; enrolled_at: string; revoked_at: string | null } | undefined;
-    return r && { id: r.id, siteId: r.site_id, name: r.name, enrolledAt: r.enrolled_at, revokedAt: r.revoked_at };
+    const r = this.db.prepare(`SELECT ${DEVICE_COLUMNS} FROM devices WHERE token_hash = ?`).get(tokenHash) as DeviceDbRow | undefined;
+    return r && toDeviceRow(r);
+  }
+
+  async getDevice(id: string): Promise<DeviceRow | undefined> {
+    const r = this.db.prepare(`SELECT ${DEVICE_COLUMNS} FROM devices WHERE id = ?`).get(id) as DeviceDbRow | undefined;
+    return r && toDeviceRow(r);
+  }
+
+  async listDevices(siteId: string): Promise<DeviceRow[]> {
+    const rows = this.db.prepare(`SELECT ${DEVICE_COLUMNS} FROM devices WHERE site_id = ? ORDER BY enrolled_at, id`).all(siteId) as DeviceDbRow[];
+    return rows.map(toDeviceRow);
+  }
+
+  async revokeDevice(id: string, at: string): Promise<boolean> {
+    const result = this.db.prepare(`UPDATE devices SET revoked_at = COALESCE(revoked_at, ?) WHERE id = ?`).run(at, id);
+    return result.changes > 0;
   }
 
   async createSession(s: SessionRow): Promise<void> {
@@ -240,6 +253,20 @@ export class SqliteStore implements ServerStore {
     const row = this.db.prepare(`UPDATE counters SET value = value + 1 WHERE name = 'log' RETURNING value`).get() as { value: number };
     return row.value;
   }
+}
+
+const DEVICE_COLUMNS = 'id, site_id, name, enrolled_at, revoked_at';
+
+interface DeviceDbRow {
+  id: string;
+  site_id: string;
+  name: string;
+  enrolled_at: string;
+  revoked_at: string | null;
+}
+
+function toDeviceRow(r: DeviceDbRow): DeviceRow {
+  return { id: r.id, siteId: r.site_id, name: r.name, enrolledAt: r.enrolled_at, revokedAt: r.revoked_at };
 }
 
 function toLogRow(r: LogDbRow): LogRow {
