@@ -2,14 +2,20 @@
 import { defineConfig } from 'vite';
 import preact from '@preact/preset-vite';
 import { VitePWA } from 'vite-plugin-pwa';
+import { fileURLToPath } from 'node:url';
 
 // One config for the app build and for the three test projects (unit, server, e2e).
+const here = fileURLToPath(new URL('.', import.meta.url));
+
 export default defineConfig({
+  // The app's index.html lives in src/ (the top level holds only the fixed set of files).
+  root: 'src',
+  publicDir: '../public',
   plugins: [
     preact(),
     VitePWA({
       strategies: 'injectManifest',
-      srcDir: 'service-worker',
+      srcDir: '../service-worker',
       filename: 'sw.ts',
       injectRegister: false, // src/main.tsx registers /sw.js itself
       manifest: false, // public/manifest.webmanifest is the one manifest
@@ -17,11 +23,13 @@ export default defineConfig({
     }),
   ],
   server: { proxy: { '/api': 'http://127.0.0.1:8080' } },
-  build: { target: 'es2022', sourcemap: true },
+  build: { target: 'es2022', sourcemap: true, outDir: '../dist', emptyOutDir: true },
   test: {
+    root: here,
     projects: [
       {
         extends: true,
+        root: here,
         test: {
           name: 'unit',
           include: ['test/{engine,schema,store,sync,app,ui}/**/*.test.{ts,tsx}'],
@@ -31,10 +39,12 @@ export default defineConfig({
       },
       {
         extends: true,
+        root: here,
         test: { name: 'server', include: ['test/server/**/*.test.ts'], environment: 'node' },
       },
       {
         extends: true,
+        root: here,
         test: {
           name: 'e2e',
           include: ['test/e2e/**/*.e2e.test.ts'],

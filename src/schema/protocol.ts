@@ -1,6 +1,6 @@
 import { EntityId, Instant, NonEmptyText, RecordId, z } from './common';
 import { DeviceRecord } from './records';
-import { CauseList, Characteristic, Line, Person, Phase, Role, Site, Station } from './setup';
+import { CauseList, Characteristic, Line, Person, Phase, Site, Station } from './setup';
 
 /** Sent in every request as the `x-plumbline-protocol` header; a mismatch is answered 426 with a clear message. */
 export const PROTOCOL_VERSION = 1;

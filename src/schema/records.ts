@@ -1,5 +1,5 @@
 import { EntityId, Instant, NonEmptyText, OptionalText, RecordId, z } from './common';
-import { RuleId } from './setup';
+import { SignalRuleId } from './setup';
 
 /**
  * One subgroup as recorded at the machine. Append-only: a correction is a new Sample whose
@@ -28,12 +28,12 @@ export type Sample = z.infer<typeof Sample>;
 
 /** What fired, kept with the response so history stays true after limits change. */
 export const SignalSnapshot = z.object({
-  rule: RuleId,
+  rule: SignalRuleId,
   explanation: NonEmptyText(300),
   phaseId: z.optional(EntityId),
-  centre: z.number(),
-  ucl: z.number(),
-  lcl: z.number(),
+  centre: z.nullable(z.number()),
+  ucl: z.nullable(z.number()),
+  lcl: z.nullable(z.number()),
   /** Ids of the samples that make up the pattern, the newest last. */
   sampleIds: z.array(RecordId),
 });

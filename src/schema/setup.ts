@@ -23,6 +23,10 @@ export const isVariableChart = (t: ChartType): boolean => VARIABLE_CHARTS.includ
 export const RuleId = z.enum(['we1', 'we2', 'we3', 'we4', 'n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8']);
 export type RuleId = z.infer<typeof RuleId>;
 
+/** What a signal can name: a run rule, or the EWMA / CUSUM chart's own decision. */
+export const SignalRuleId = z.enum(['we1', 'we2', 'we3', 'we4', 'n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8', 'ewma', 'cusum']);
+export type SignalRuleId = z.infer<typeof SignalRuleId>;
+
 export const SpecLimits = z.object({
   lsl: z.optional(z.number()),
   usl: z.optional(z.number()),

@@ -1,0 +1,68 @@
+import type { AnalysisInput, PhaseInput, SubgroupInput } from '../engine/types';
+import type { Characteristic, Phase, Sample } from '../schema';
+
+/** What the engine needs for one characteristic, plus the sample id behind each plotted point. */
+export interface ChartSeries {
+  readonly input: AnalysisInput;
+  /** sampleIds[i] is the sample plotted at point i. */
+  readonly sampleIds: readonly string[];
+  readonly samples: readonly Sample[];
+  /** Phase behind each entry of input.phases (same order). */
+  readonly phaseIds: readonly string[];
+}
+
+/** Sort key: time taken, then id (ids are time-ordered UUIDv7, so ties keep entry order). */
+export function compareSamples(a: Sample, b: Sample): number {
+  if (a.takenAt !== b.takenAt) return a.takenAt < b.takenAt ? -1 : 1;
+  return a.id < b.id ? -1 : a.id > b.id ? 1 : 0;
+}
+
+function toSubgroup(ch: Characteristic, s: Sample): SubgroupInput {
+  const excluded = s.excluded === true;
+  switch (ch.chartType) {
+    case 'xmr':
+    case 'xbar-r':
+    case 'xbar-s':
+      return { values: s.values ?? [], excluded };
+    case 'c':
+      return { count: s.count ?? 0, excluded };
+    default: // p, np, u: count over the inspected quantity
+      return { count: s.count ?? 0, size: s.inspected ?? ch.subgroupSize, excluded };
+  }
+}
+
+/**
+ * Builds the engine input from current samples (corrections already applied) and the
+ * characteristic's phases. A phase starts at the first sample taken at or after its start.
+ */
+export function buildChartSeries(ch: Characteristic, phases: readonly Phase[], current: readonly Sample[]): ChartSeries {
+  const samples = [...current].sort(compareSamples);
+  const ordered = [...phases].filter((p) => p.characteristicId === ch.id).sort((a, b) => a.number - b.number);
+  const phaseInputs: PhaseInput[] = [];
+  const phaseIds: string[] = [];
+  for (const p of ordered) {
+    let start = samples.findIndex((s) => s.takenAt >= p.startsAt);
+    if (start < 0) start = samples.length;
+    if (phaseInputs.length === 0) start = 0; // the first phase covers everything before it too
+    const prev = phaseInputs[phaseInputs.length - 1];
+    if (prev && prev.start === start) {
+      phaseInputs.pop(); // an empty phase is superseded by the later one
+      phaseIds.pop();
+    }
+    phaseInputs.push(p.given ? { start, given: p.given } : { start, baselineCount: ch.baselineSize });
+    phaseIds.push(p.id);
+  }
+  if (phaseInputs.length === 0) phaseInputs.push({ start: 0, baselineCount: ch.baselineSize });
+  return {
+    input: {
+      chart: ch.chartType,
+      subgroups: samples.map((s) => toSubgroup(ch, s)),
+      phases: phaseInputs,
+      rules: ch.rules,
+      spec: ch.spec,
+    },
+    sampleIds: samples.map((s) => s.id),
+    samples,
+    phaseIds,
+  };
+}

@@ -1,0 +1,99 @@
+import type { Analysis, Signal } from '../engine/types';
+import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, Site, Station } from '../schema';
+import type { ChartSeries } from './analysis-input';
+import type { DueStatus } from './due-state';
+import type { SignalGroup } from './signal-state';
+
+/** The site's set-up as this tablet knows it (latest version of each entity). */
+export interface SetupView {
+  readonly sites: readonly Site[];
+  readonly lines: readonly Line[];
+  readonly stations: readonly Station[];
+  readonly characteristics: readonly Characteristic[];
+  readonly phases: readonly Phase[];
+  readonly people: readonly Person[];
+  readonly causeLists: readonly CauseList[];
+}
+
+export const EMPTY_SETUP: SetupView = { sites: [], lines: [], stations: [], characteristics: [], phases: [], people: [], causeLists: [] };
+
+/** Everything the screens need to show one characteristic. */
+export interface CharacteristicView {
+  readonly characteristic: Characteristic;
+  readonly series: ChartSeries;
+  readonly analysis: Analysis;
+  readonly groups: readonly SignalGroup[];
+  readonly responses: readonly Response[];
+  readonly acks: readonly Acknowledgement[];
+  readonly due: DueStatus;
+  readonly lastTakenAt?: string;
+}
+
+/** The sync state in the words the status pill uses. */
+export interface SyncView {
+  readonly state: 'idle' | 'syncing' | 'offline' | 'error';
+  readonly pending: number;
+  readonly rejected: number;
+  readonly lastSuccessAt?: string;
+  readonly lastError?: string;
+  readonly progress?: { readonly pushed: number; readonly toPush: number; readonly pulled: number };
+}
+
+/** A rule fired when a sample was saved: the operator is asked what happened. */
+export interface SignalPrompt {
+  readonly characteristicId: string;
+  readonly sampleId: string;
+  readonly signals: readonly Signal[];
+}
+
+export type Screen = { readonly name: 'board' } | { readonly name: 'characteristic'; readonly characteristicId: string };
+
+export interface AppState {
+  readonly stage: 'starting' | 'enrol' | 'sign-in' | 'ready' | 'failed';
+  readonly device?: { readonly deviceId: string; readonly deviceName: string; readonly siteId: string };
+  readonly person?: Person;
+  /** People signed in on this tablet (a shared tablet switches between them quickly). */
+  readonly signedIn: readonly Person[];
+  readonly setup: SetupView;
+  readonly stationId?: string;
+  readonly screen: Screen;
+  readonly views: Readonly<Record<string, CharacteristicView>>;
+  readonly sync: SyncView;
+  readonly prompt?: SignalPrompt;
+  readonly toast?: string;
+  readonly error?: string;
+  readonly now: number;
+}
+
+export interface EntryInput {
+  readonly values?: readonly number[];
+  readonly count?: number;
+  readonly inspected?: number;
+  readonly lot?: string;
+  readonly comment?: string;
+}
+
+export interface AnswerInput {
+  readonly whatHappened: string;
+  readonly causeCategory: string;
+  readonly cause?: string;
+  readonly action: string;
+}
+
+/** What the screens can ask for. Each action reports failure through `state.error`/`toast`, never by throwing into the UI. */
+export interface AppActions {
+  enrol(code: string, deviceName: string): Promise<boolean>;
+  signIn(login: string, pin: string): Promise<boolean>;
+  switchPerson(personId: string): void;
+  signOut(): void;
+  addPerson(): void;
+  selectStation(stationId: string): void;
+  open(screen: Screen): void;
+  record(characteristicId: string, entry: EntryInput): Promise<boolean>;
+  answer(prompt: SignalPrompt, answer: AnswerInput): Promise<boolean>;
+  postpone(): void;
+  reopenPrompt(characteristicId: string, sampleId: string): void;
+  acknowledge(characteristicId: string, responseId: string, note?: string): Promise<boolean>;
+  syncNow(): Promise<void>;
+  dismissToast(): void;
+}

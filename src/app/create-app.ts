@@ -1,0 +1,353 @@
+import type { Person, Response, Sample } from '../schema';
+import {
+  getAcksForCharacteristic,
+  getCurrentSamplesForCharacteristic,
+  getDeviceIdentity,
+  getResponsesForCharacteristic,
+  getSetup,
+  listSignedInPeople,
+  resetSendingOnStart,
+  saveDeviceRecord,
+  saveSignedInPerson,
+  getSignedInPerson,
+  setDeviceIdentity,
+  type AppDb,
+  type DeviceIdentity,
+  type SignedInPerson,
+} from '../store';
+import { ApiError, type ApiClient } from '../sync/api-client';
+import { verifyOffline } from '../sync/offline-verifier';
+import type { SyncStatus } from '../sync/sync-engine';
+import {
+  EMPTY_SETUP,
+  type AnswerInput,
+  type AppActions,
+  type AppState,
+  type CharacteristicView,
+  type EntryInput,
+  type Screen,
+  type SignalPrompt,
+  type SyncView,
+} from './app-state';
+import { buildCharacteristicView } from './build-view';
+import { signalsAtNewest } from './signal-state';
+import { snapshotSignals } from './snapshots';
+
+/** The sync engine as the app uses it. */
+export interface SyncPort {
+  syncNow(): Promise<unknown>;
+  start(): void;
+  stop(): void;
+  getStatus(): SyncStatus;
+  subscribe(listener: (status: SyncStatus) => void): () => void;
+}
+
+/** A key-value place for what survives a reload of the tab but not much more (sessionStorage in the browser). */
+export interface SmallStorage {
+  getItem(key: string): string | null;
+  setItem(key: string, value: string): void;
+  removeItem(key: string): void;
+}
+
+export interface AppDeps {
+  readonly db: AppDb;
+  readonly api: ApiClient;
+  /** Made once the device is known (the engine needs the device token). */
+  readonly createSync: (identity: DeviceIdentity) => SyncPort;
+  readonly now: () => number;
+  readonly newId: () => string;
+  readonly session: SmallStorage;
+  readonly prefs: SmallStorage;
+}
+
+const SUPERVISING: readonly Person['role'][] = ['supervisor', 'engineer', 'admin'];
+
+function toPerson(p: SignedInPerson): Person {
+  return { id: p.personId, name: p.name, login: p.login, role: p.role, active: true };
+}
+
+function syncView(s: SyncStatus): SyncView {
+  return {
+    state: s.state,
+    pending: s.pending,
+    rejected: s.rejected,
+    ...(s.lastSuccessAt ? { lastSuccessAt: new Date(s.lastSuccessAt).toISOString() } : {}),
+    ...(s.lastError ? { lastError: s.lastError } : {}),
+    ...(s.progress ? { progress: s.progress } : {}),
+  };
+}
+
+function messageOf(e: unknown): string {
+  return e instanceof Error ? e.message : String(e);
+}
+
+/**
+ * The app: state plus the actions the screens call. It joins the device store, the engine
+ * and the sync engine; the UI only reads state and calls actions.
+ */
+export function createPlumblineApp(deps: AppDeps) {
+  const { db, api } = deps;
+  let state: AppState = {
+    stage: 'starting', signedIn: [], setup: EMPTY_SETUP, screen: { name: 'board' }, views: {},
+    sync: { state: 'idle', pending: 0, rejected: 0 }, now: deps.now(),
+  };
+  const listeners = new Set<() => void>();
+  let identity: DeviceIdentity | undefined;
+  let sync: SyncPort | undefined;
+  let unsubscribeSync: (() => void) | undefined;
+  let toastTimer: ReturnType<typeof setTimeout> | undefined;
+
+  const set = (patch: Partial<AppState>) => {
+    state = { ...state, ...patch };
+    for (const l of listeners) l();
+  };
+  const toast = (text: string) => {
+    set({ toast: text });
+    clearTimeout(toastTimer);
+    toastTimer = setTimeout(() => set({ toast: undefined }), 4000);
+  };
+
+  async function loadView(characteristicId: string): Promise<CharacteristicView | undefined> {
+    const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
+    if (!ch) return undefined;
+    const [samples, responses, acks] = await Promise.all([
+      getCurrentSamplesForCharacteristic(db, ch.id),
+      getResponsesForCharacteristic(db, ch.id),
+      getAcksForCharacteristic(db, ch.id),
+    ]);
+    return buildCharacteristicView(ch, state.setup.phases, samples, responses, acks, deps.now());
+  }
+
+  async function refreshViews(ids?: readonly string[]) {
+    const targets = ids ?? state.setup.characteristics.filter((c) => c.stationId === state.stationId).map((c) => c.id);
+    const views = { ...state.views };
+    for (const id of targets) {
+      const v = await loadView(id);
+      if (v) views[id] = v;
+    }
+    set({ views, now: deps.now() });
+  }
+
+  async function reloadSetup() {
+    const setup = await getSetup(db);
+    let stationId = state.stationId ?? deps.prefs.getItem('plumbline.station') ?? undefined;
+    if (!stationId || !setup.stations.some((s) => s.id === stationId)) stationId = setup.stations[0]?.id;
+    set({ setup, ...(stationId ? { stationId } : {}) });
+  }
+
+  function startSync(id: DeviceIdentity) {
+    sync?.stop();
+    unsubscribeSync?.();
+    sync = deps.createSync(id);
+    unsubscribeSync = sync.subscribe((s) => {
+      const wasSyncing = state.sync.state === 'syncing';
+      set({ sync: syncView(s) });
+      // Fresh data came down: re-read set-up and charts once a run ends.
+      if (wasSyncing && s.state !== 'syncing') void reloadSetup().then(() => refreshViews());
+    });
+    set({ sync: syncView(sync.getStatus()) });
+    sync.start();
+  }
+
+  async function becomeReady(person: Person) {
+    deps.session.setItem('plumbline.person', person.id);
+    const signedIn = (await listSignedInPeople(db)).map(toPerson);
+    set({ stage: 'ready', person, signedIn, error: undefined, screen: { name: 'board' } });
+    await refreshViews();
+  }
+
+  async function start() {
+    try {
+      await resetSendingOnStart(db);
+      identity = await getDeviceIdentity(db);
+      if (!identity) return set({ stage: 'enrol' });
+      set({ device: { deviceId: identity.deviceId, deviceName: identity.deviceName, siteId: identity.siteId } });
+      await reloadSetup();
+      startSync(identity);
+      const people = await listSignedInPeople(db);
+      const current = people.find((p) => p.personId === deps.session.getItem('plumbline.person'));
+      set({ signedIn: people.map(toPerson) });
+      if (current) await becomeReady(toPerson(current));
+      else set({ stage: 'sign-in' });
+    } catch (e) {
+      set({ stage: 'failed', error: `Plumbline could not open its storage on this tablet: ${messageOf(e)}` });
+    }
+  }
+
+  const actions: AppActions = {
+    async enrol(code, deviceName) {
+      try {
+        const res = await api.enrolDevice({ code, deviceName });
+        identity = { deviceId: res.deviceId, deviceToken: res.deviceToken, siteId: res.siteId, deviceName };
+        await setDeviceIdentity(db, identity);
+        set({ device: { deviceId: res.deviceId, deviceName, siteId: res.siteId }, stage: 'sign-in', error: undefined });
+        startSync(identity);
+        await sync?.syncNow();
+        await reloadSetup();
+        return true;
+      } catch (e) {
+        const offline = e instanceof ApiError && e.code === 'offline';
+        set({ error: offline ? 'The site server cannot be reached. Connecting a tablet needs the network once.' : messageOf(e) });
+        return false;
+      }
+    },
+
+    async signIn(login, pin) {
+      if (!identity) return false;
+      try {
+        const res = await api.signIn(identity.deviceToken, { login, pin });
+        await saveSignedInPerson(db, {
+          personId: res.person.id, login: res.person.login, name: res.person.name, role: res.person.role,
+          offlineVerifier: res.offlineVerifier, signedInAt: deps.now(),
+        });
+        await becomeReady(res.person);
+        return true;
+      } catch (e) {
+        if (e instanceof ApiError && (e.code === 'offline' || e.code === 'server' || e.code === 'bad-response')) {
+          // No server: people who signed in on this tablet before can sign in against their cached verifier.
+          const known = await getSignedInPerson(db, login);
+          if (known && (await verifyOffline(pin, known.offlineVerifier))) {
+            await becomeReady(toPerson(known));
+            return true;
+          }
+          set({ error: known ? 'Login or PIN is not right.' : 'The server cannot be reached, and this person has not signed in on this tablet before.' });
+          return false;
+        }
+        set({ error: e instanceof ApiError && e.code === 'unauthorized' ? 'Login or PIN is not right.' : messageOf(e) });
+        return false;
+      }
+    },
+
+    switchPerson(personId) {
+      const p = state.signedIn.find((x) => x.id === personId);
+      if (p) void becomeReady(p);
+    },
+    signOut() {
+      deps.session.removeItem('plumbline.person');
+      set({ stage: 'sign-in', person: undefined, prompt: undefined, error: undefined });
+    },
+    addPerson() {
+      set({ stage: 'sign-in', error: undefined });
+    },
+    selectStation(stationId) {
+      deps.prefs.setItem('plumbline.station', stationId);
+      set({ stationId, screen: { name: 'board' } });
+      void refreshViews();
+    },
+    open(screen: Screen) {
+      set({ screen, error: undefined });
+      if (screen.name === 'characteristic') void refreshViews([screen.characteristicId]);
+      else void refreshViews();
+    },
+
+    async record(characteristicId, entry: EntryInput) {
+      const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
+      if (!ch || !identity || !state.person) return false;
+      const sample: Sample = {
+        kind: 'sample', id: deps.newId(), characteristicId, takenAt: new Date(deps.now()).toISOString(),
+        recordedBy: state.person.id, deviceId: identity.deviceId,
+        ...(entry.values ? { values: [...entry.values] } : {}),
+        ...(entry.count !== undefined ? { count: entry.count } : {}),
+        ...(entry.inspected !== undefined ? { inspected: entry.inspected } : {}),
+        ...(entry.lot ? { lot: entry.lot } : {}),
+        ...(entry.comment ? { comment: entry.comment } : {}),
+      };
+      try {
+        await saveDeviceRecord(db, sample, deps.now());
+      } catch (e) {
+        set({ error: `The sample was NOT saved: ${messageOf(e)}` });
+        return false;
+      }
+      const view = await loadView(characteristicId);
+      if (!view) return true;
+      const fired = signalsAtNewest(view.analysis);
+      const prompt: SignalPrompt | undefined = fired.length ? { characteristicId, sampleId: sample.id, signals: fired } : undefined;
+      set({ views: { ...state.views, [characteristicId]: view }, error: undefined, ...(prompt ? { prompt } : {}) });
+      toast(fired.length ? 'Saved on this tablet — a run rule fired' : 'Saved on this tablet');
+      void sync?.syncNow();
+      return true;
+    },
+
+    async answer(prompt, answer: AnswerInput) {
+      const view = state.views[prompt.characteristicId];
+      if (!view || !identity || !state.person) return false;
+      const response: Response = {
+        kind: 'response', id: deps.newId(), characteristicId: prompt.characteristicId, sampleId: prompt.sampleId,
+        signals: snapshotSignals(prompt.signals, view.analysis, view.series),
+        whatHappened: answer.whatHappened, causeCategory: answer.causeCategory, action: answer.action,
+        ...(answer.cause ? { cause: answer.cause } : {}),
+        respondedBy: state.person.id, respondedAt: new Date(deps.now()).toISOString(), deviceId: identity.deviceId,
+      };
+      try {
+        await saveDeviceRecord(db, response, deps.now());
+      } catch (e) {
+        set({ error: `The answer was NOT saved: ${messageOf(e)}` });
+        return false;
+      }
+      set({ prompt: undefined });
+      await refreshViews([prompt.characteristicId]);
+      toast('Answer saved on this tablet');
+      void sync?.syncNow();
+      return true;
+    },
+
+    postpone() {
+      set({ prompt: undefined });
+      toast('The signal stays open until it is answered');
+    },
+
+    reopenPrompt(characteristicId, sampleId) {
+      const view = state.views[characteristicId];
+      const group = view?.groups.find((g) => g.sampleId === sampleId);
+      if (group) set({ prompt: { characteristicId, sampleId, signals: group.signals } });
+    },
+
+    async acknowledge(characteristicId, responseId, note) {
+      if (!identity || !state.person) return false;
+      if (!SUPERVISING.includes(state.person.role)) {
+        set({ error: 'Only a supervisor, engineer or admin can sign off a signal.' });
+        return false;
+      }
+      try {
+        await saveDeviceRecord(db, {
+          kind: 'ack', id: deps.newId(), responseId, characteristicId, by: state.person.id,
+          at: new Date(deps.now()).toISOString(), deviceId: identity.deviceId, ...(note ? { note } : {}),
+        }, deps.now());
+      } catch (e) {
+        set({ error: `The sign-off was NOT saved: ${messageOf(e)}` });
+        return false;
+      }
+      await refreshViews([characteristicId]);
+      void sync?.syncNow();
+      return true;
+    },
+
+    async syncNow() {
+      await sync?.syncNow();
+    },
+    dismissToast() {
+      set({ toast: undefined });
+    },
+  };
+
+  const tick = setInterval(() => {
+    if (state.stage === 'ready') void refreshViews();
+  }, 30_000);
+
+  return {
+    getState: () => state,
+    subscribe(listener: () => void) {
+      listeners.add(listener);
+      return () => listeners.delete(listener);
+    },
+    actions,
+    start,
+    stop() {
+      clearInterval(tick);
+      sync?.stop();
+      unsubscribeSync?.();
+    },
+  };
+}
+
+export type PlumblineApp = ReturnType<typeof createPlumblineApp>;

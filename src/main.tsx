@@ -1,0 +1,42 @@
+import { render } from 'preact';
+import { createPlumblineApp } from './app/create-app';
+import { openAppDb, requestPersistentStorage } from './store';
+import { createApiClient } from './sync/api-client';
+import { newRecordId } from './sync/ids';
+import { createSyncEngine } from './sync/sync-engine';
+import { App } from './ui/App';
+import './ui/styles.css';
+
+if (matchMedia('(prefers-color-scheme: dark)').matches || localStorage.getItem('plumbline.theme') === 'dark') {
+  document.documentElement.dataset.theme = localStorage.getItem('plumbline.theme') ?? 'dark';
+}
+
+async function boot() {
+  const db = await openAppDb(undefined, {
+    onVersionChange: () => location.reload(),
+    onTerminated: () => location.reload(),
+  });
+  const api = createApiClient({ baseUrl: `${location.origin}/api/v1` });
+  const app = createPlumblineApp({
+    db,
+    api,
+    createSync: () => createSyncEngine({ db, api }),
+    now: () => Date.now(),
+    newId: newRecordId,
+    session: sessionStorage,
+    prefs: localStorage,
+  });
+  render(<App app={app} locale={navigator.language} />, document.getElementById('app')!);
+  await app.start();
+  void requestPersistentStorage();
+  // Background Sync wakes the page's sender (Chromium only); every browser also retries in the foreground.
+  navigator.serviceWorker?.addEventListener('message', (e) => {
+    if (e.data === 'plumbline:sync-now') void app.actions.syncNow();
+  });
+  (window as unknown as { plumbline?: unknown }).plumbline = app;
+}
+
+if ('serviceWorker' in navigator && import.meta.env.PROD) {
+  void navigator.serviceWorker.register('/sw.js');
+}
+void boot();

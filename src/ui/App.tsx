@@ -1,0 +1,35 @@
+import { useMemo } from 'preact/hooks';
+import { decimalSeparatorFor } from '../app/number-entry';
+import { CharacteristicScreen } from './CharacteristicScreen';
+import { EnrolScreen } from './EnrolScreen';
+import { SignalPromptSheet } from './SignalPromptSheet';
+import { SignInScreen } from './SignInScreen';
+import { StationBoard } from './StationBoard';
+import { TopBar } from './TopBar';
+import { useAppState, type AppHandle } from './use-app';
+
+export function App({ app, locale }: { app: AppHandle; locale: string }) {
+  const state = useAppState(app);
+  const { actions } = app;
+  const separator = useMemo(() => decimalSeparatorFor(locale), [locale]);
+  const promptChar = state.prompt && state.setup.characteristics.find((c) => c.id === state.prompt!.characteristicId);
+  const site = state.setup.causeLists.find((c) => c.siteId === state.device?.siteId);
+  let body;
+  if (state.stage === 'starting') body = <main class="main"><p class="hint">Opening Plumbline…</p></main>;
+  else if (state.stage === 'failed') body = <main class="main"><p class="error-text" role="alert">{state.error}</p></main>;
+  else if (state.stage === 'enrol') body = <EnrolScreen state={state} actions={actions} />;
+  else if (state.stage === 'sign-in') body = <SignInScreen state={state} actions={actions} />;
+  else if (state.screen.name === 'characteristic') body = <CharacteristicScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
+  else body = <StationBoard state={state} actions={actions} />;
+  return (
+    <div class="shell">
+      <TopBar state={state} actions={actions} />
+      {state.stage === 'ready' && state.error ? <p class="caution" role="alert" style="margin:12px 20px 0">{state.error}</p> : null}
+      {body}
+      {state.stage === 'ready' && state.prompt && promptChar ? (
+        <SignalPromptSheet prompt={state.prompt} characteristic={promptChar} siteCauses={site?.categories ?? []} actions={actions} />
+      ) : null}
+      {state.toast ? <div class="toast" role="status" onClick={() => actions.dismissToast()}>{state.toast}</div> : null}
+    </div>
+  );
+}

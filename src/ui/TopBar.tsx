@@ -1,0 +1,56 @@
+import type { AppState, SyncView } from '../app/app-state';
+import type { AppActions } from '../app/app-state';
+
+function clock(iso: string | undefined): string {
+  if (!iso) return 'never';
+  return new Date(iso).toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit' });
+}
+
+/** The sync state in plain words, e.g. "3 waiting to send · offline". */
+export function describeSync(s: SyncView): { text: string; tone: 'clear' | 'waiting' | 'failing' } {
+  const waiting = s.pending > 0 ? `${s.pending} waiting to send` : 'All sent';
+  if (s.state === 'syncing') {
+    const p = s.progress;
+    return { text: p ? `Sending ${p.pushed}/${p.toPush} · received ${p.pulled}` : 'Sending…', tone: 'waiting' };
+  }
+  if (s.state === 'offline') return { text: `${waiting} · no connection`, tone: s.pending ? 'waiting' : 'clear' };
+  if (s.state === 'error') return { text: `${waiting} · last try failed`, tone: 'failing' };
+  if (s.rejected > 0) return { text: `${waiting} · ${s.rejected} refused by server`, tone: 'failing' };
+  return { text: `${waiting} · last sync ${clock(s.lastSuccessAt)}`, tone: s.pending ? 'waiting' : 'clear' };
+}
+
+export function TopBar({ state, actions }: { state: AppState; actions: AppActions }) {
+  const station = state.setup.stations.find((s) => s.id === state.stationId);
+  const line = station && state.setup.lines.find((l) => l.id === station.lineId);
+  const sync = describeSync(state.sync);
+  return (
+    <header class="topbar">
+      <div class="mark">
+        <img src="/icons/plumbline.svg" alt="" />
+        <span>Plumbline</span>
+      </div>
+      {station ? (
+        <div class="where" data-testid="where">
+          {line ? `${line.name} · ` : ''}
+          {station.name}
+        </div>
+      ) : null}
+      <div class="spacer" />
+      <button
+        type="button"
+        class={`pill ${sync.tone}`}
+        onClick={() => void actions.syncNow()}
+        title={state.sync.lastError ?? 'Send and fetch now'}
+        data-testid="sync-pill"
+      >
+        <span class="dot" aria-hidden="true" />
+        <span>{sync.text}</span>
+      </button>
+      {state.person ? (
+        <button type="button" class="pill" onClick={() => actions.signOut()} data-testid="person-pill" title="Change person">
+          {state.person.name} · {state.person.role}
+        </button>
+      ) : null}
+    </header>
+  );
+}

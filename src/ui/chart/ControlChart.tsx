@@ -1,0 +1,180 @@
+import { useEffect, useRef } from 'preact/hooks';
+import uPlot from 'uplot';
+import 'uplot/dist/uPlot.min.css';
+
+/** One plotted point with the limits in force there (limits vary per point when the sample size does). */
+export interface PlotPoint {
+  readonly value: number | null;
+  /** Limits are null where they cannot be computed (the engine says why in its warnings). */
+  readonly centre: number | null;
+  readonly ucl: number | null;
+  readonly lcl: number | null;
+  /** Zone width (sigma of the plotted statistic); null or 0 hides the zone lines. */
+  readonly sigma: number | null;
+}
+
+export interface PlotFlag {
+  readonly index: number;
+  /** Short rule tag drawn beside the point, e.g. "WE1". */
+  readonly tag: string;
+  /** Answered flags are drawn hollow; open ones filled. */
+  readonly open: boolean;
+}
+
+export interface ControlChartProps {
+  /** Accessible name and summary of what the chart shows. */
+  readonly label: string;
+  readonly points: readonly PlotPoint[];
+  readonly flags: readonly PlotFlag[];
+  /** Indices where a new phase starts (a boundary is drawn before the point). */
+  readonly phaseStarts: readonly number[];
+  readonly spec?: { readonly lsl?: number | undefined; readonly usl?: number | undefined };
+  readonly decimals: number;
+  readonly height: number;
+  readonly showZones: boolean;
+  /** How many of the latest points to show; the rest is reached with "whole history". */
+  readonly window: number;
+  readonly testId?: string;
+}
+
+function cssVar(el: Element, name: string, fallback: string): string {
+  return getComputedStyle(el).getPropertyValue(name).trim() || fallback;
+}
+
+function buildData(p: ControlChartProps): uPlot.AlignedData {
+  const n = p.points.length;
+  const x = Array.from({ length: n }, (_, i) => i + 1);
+  const col = (f: (q: PlotPoint) => number | null) => p.points.map(f);
+  const zone = (k: number) => col((q) => (p.showZones && q.sigma && q.centre !== null ? q.centre + k * q.sigma : null));
+  const spec = (v: number | undefined) => x.map(() => (v === undefined ? null : v));
+  return [
+    x,
+    col((q) => q.value),
+    col((q) => q.ucl),
+    col((q) => q.centre),
+    col((q) => q.lcl),
+    zone(2), zone(1), zone(-1), zone(-2),
+    spec(p.spec?.usl),
+    spec(p.spec?.lsl),
+  ] as uPlot.AlignedData;
+}
+
+/** The control chart: points, centre line, control limits, zones, spec limits, phases and flags. Sole uPlot user. */
+export function ControlChart(props: ControlChartProps) {
+  const host = useRef<HTMLDivElement>(null);
+  const plot = useRef<uPlot | null>(null);
+  const latest = useRef(props);
+  latest.current = props;
+
+  useEffect(() => {
+    const el = host.current;
+    if (!el) return;
+    const colour = {
+      line: cssVar(el, '--chart-line', '#3b4c56'),
+      centre: cssVar(el, '--chart-centre', '#1d6b6b'),
+      limit: cssVar(el, '--chart-limit', '#14232b'),
+      zone: cssVar(el, '--chart-zone', 'rgba(0,0,0,.15)'),
+      spec: cssVar(el, '--chart-spec', '#7a2e8e'),
+      signal: cssVar(el, '--signal', '#a3221b'),
+      ink: cssVar(el, '--ink', '#14232b'),
+      soft: cssVar(el, '--ink-soft', '#3d4d56'),
+      surface: cssVar(el, '--surface', '#fff'),
+    };
+    const stepped = uPlot.paths.stepped!({ align: 1 });
+    const fmt = (v: number) => v.toFixed(latest.current.decimals);
+    const drawOverlay = (u: uPlot) => {
+      const p = latest.current;
+      const ctx = u.ctx;
+      const dpr = devicePixelRatio || 1;
+      ctx.save();
+      // Phase boundaries: a solid vertical rule half-way before the first point of the phase.
+      ctx.strokeStyle = colour.soft;
+      ctx.lineWidth = 2 * dpr;
+      ctx.setLineDash([]);
+      for (const start of p.phaseStarts) {
+        if (start <= 0) continue;
+        const px = u.valToPos(start + 0.5, 'x', true);
+        if (px < u.bbox.left || px > u.bbox.left + u.bbox.width) continue;
+        ctx.beginPath();
+        ctx.moveTo(px, u.bbox.top);
+        ctx.lineTo(px, u.bbox.top + u.bbox.height);
+        ctx.stroke();
+        ctx.fillStyle = colour.soft;
+        ctx.font = `${12 * dpr}px sans-serif`;
+        ctx.fillText(`phase ${p.phaseStarts.indexOf(start) + 1}`, px + 4 * dpr, u.bbox.top + 14 * dpr);
+      }
+      // Flags: a diamond around each flagged point, filled while open, with the rule tag.
+      ctx.font = `bold ${13 * dpr}px sans-serif`;
+      for (const f of p.flags) {
+        const v = p.points[f.index]?.value;
+        if (v === null || v === undefined) continue;
+        const cx = u.valToPos(f.index + 1, 'x', true);
+        const cy = u.valToPos(v, 'y', true);
+        if (cx < u.bbox.left - 1 || cx > u.bbox.left + u.bbox.width + 1) continue;
+        const r = 9 * dpr;
+        ctx.beginPath();
+        ctx.moveTo(cx, cy - r);
+        ctx.lineTo(cx + r, cy);
+        ctx.lineTo(cx, cy + r);
+        ctx.lineTo(cx - r, cy);
+        ctx.closePath();
+        ctx.lineWidth = 3 * dpr;
+        ctx.strokeStyle = colour.signal;
+        ctx.stroke();
+        if (f.open) {
+          ctx.fillStyle = colour.signal;
+          ctx.fill();
+        }
+        ctx.fillStyle = colour.signal;
+        // The tag goes left of the point near the right edge, so it is never clipped.
+        const w = ctx.measureText(f.tag).width;
+        const right = cx + r + 3 * dpr + w < u.bbox.left + u.bbox.width;
+        ctx.fillText(f.tag, right ? cx + r + 3 * dpr : cx - r - 3 * dpr - w, cy - r);
+      }
+      ctx.restore();
+    };
+    const opts: uPlot.Options = {
+      width: el.clientWidth || 600,
+      height: latest.current.height,
+      scales: { x: { time: false } },
+      legend: { show: false },
+      cursor: { drag: { x: true, y: false }, points: { size: 12 } },
+      axes: [
+        { stroke: colour.soft, grid: { stroke: colour.zone, width: 1 }, ticks: { stroke: colour.zone } },
+        { stroke: colour.soft, grid: { stroke: colour.zone, width: 1 }, ticks: { stroke: colour.zone }, size: 70, values: (_u, vals) => vals.map((v) => fmt(v)) },
+      ],
+      series: [
+        {},
+        { label: 'value', stroke: colour.line, width: 2, points: { show: true, size: 8, fill: colour.surface, stroke: colour.line, width: 2 } },
+        { label: 'UCL', stroke: colour.limit, width: 2, dash: [12, 6], paths: stepped, points: { show: false } },
+        { label: 'centre', stroke: colour.centre, width: 2.5, paths: stepped, points: { show: false } },
+        { label: 'LCL', stroke: colour.limit, width: 2, dash: [12, 6], paths: stepped, points: { show: false } },
+        ...[0, 1, 2, 3].map(() => ({ stroke: colour.zone, width: 1, dash: [3, 5], paths: stepped, points: { show: false } })),
+        { label: 'USL', stroke: colour.spec, width: 2.5, dash: [2, 5], points: { show: false } },
+        { label: 'LSL', stroke: colour.spec, width: 2.5, dash: [2, 5], points: { show: false } },
+      ],
+      hooks: { draw: [drawOverlay] },
+    };
+    const u = new uPlot(opts, buildData(latest.current), el);
+    plot.current = u;
+    const ro = new ResizeObserver(() => u.setSize({ width: el.clientWidth || 600, height: latest.current.height }));
+    ro.observe(el);
+    return () => {
+      ro.disconnect();
+      u.destroy();
+      plot.current = null;
+    };
+  }, []);
+
+  // New data: one setData per change (the chart updates within the frame of the save).
+  useEffect(() => {
+    const u = plot.current;
+    if (!u) return;
+    u.setData(buildData(props), false);
+    const n = props.points.length;
+    const from = Math.max(1, n - props.window + 1);
+    u.setScale('x', { min: from - 0.5, max: Math.max(n, from + 1) + 0.5 });
+  }, [props.points, props.flags, props.window, props.spec, props.showZones, props.phaseStarts]);
+
+  return <div ref={host} class="chart-canvas" role="img" aria-label={props.label} data-testid={props.testId} />;
+}

@@ -1,0 +1,15 @@
+import { useEffect, useState } from 'preact/hooks';
+import type { AppActions, AppState } from '../app/app-state';
+
+/** The app as the screens see it: a state to read, a way to be told of changes, actions to call. */
+export interface AppHandle {
+  getState(): AppState;
+  subscribe(listener: () => void): () => void;
+  readonly actions: AppActions;
+}
+
+export function useAppState(app: AppHandle): AppState {
+  const [state, setState] = useState(app.getState());
+  useEffect(() => app.subscribe(() => setState(app.getState())), [app]);
+  return state;
+}
