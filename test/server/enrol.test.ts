@@ -63,7 +63,14 @@ describe('POST /api/v1/enrol', () => {
     expect(res.json().message).toContain('deviceName');
   });
 
-  it('rate-limits attempts per address, with Retry-After, until the window passes', async () => {
+  it('does not count good codes against the limit: many tablets enrol from one address', async () => {
+    for (let i = 0; i < 8; i++) {
+      const { code } = await issueEnrolmentCode(server.store, SITE, 'p-adm', server.now());
+      expect((await enrol(code, '10.7.7.7')).statusCode).toBe(200);
+    }
+  });
+
+  it('rate-limits failed attempts per address, with Retry-After, until the window passes', async () => {
     for (let i = 0; i < 5; i++) expect((await enrol(`WRONG-${i}`, '10.9.9.9')).statusCode).toBe(400);
     const limited = await enrol('WRONG-X', '10.9.9.9');
     expect(limited.statusCode).toBe(429);

@@ -15,9 +15,18 @@ export function registerEnrolRoute(app: FastifyInstance, ctx: ServerContext): vo
         'retry-after': String(wait),
       });
     }
-    // Every attempt counts, good or bad: codes are short, so guessing must stay slow.
-    ctx.enrolLimiter.hit(request.ip, now.getTime());
-    const body = parseInput(EnrolRequest, request.body, 'enrolment request');
+    // Failed attempts count: codes are short, so guessing must stay slow, while a site that
+    // enrols many tablets from one address with good codes is not held up.
+    const fail = (error: HttpError): never => {
+      ctx.enrolLimiter.hit(request.ip, now.getTime());
+      throw error;
+    };
+    let body: EnrolRequest;
+    try {
+      body = parseInput(EnrolRequest, request.body, 'enrolment request');
+    } catch (error) {
+      return fail(error as HttpError);
+    }
 
     const deviceToken = newToken();
     const deviceId = newDeviceId();
@@ -28,9 +37,9 @@ export function registerEnrolRoute(app: FastifyInstance, ctx: ServerContext): vo
       enrolledAt: now.toISOString(),
     });
     if (!result.ok) {
-      if (result.reason === 'used') throw new HttpError(409, 'enrolment-code-used', 'This enrolment code has already been used; ask an administrator for a new one.');
-      if (result.reason === 'expired') throw new HttpError(410, 'enrolment-code-expired', 'This enrolment code has expired; ask an administrator for a new one.');
-      throw new HttpError(400, 'enrolment-code-invalid', 'This enrolment code is not known; check it and type it again.');
+      if (result.reason === 'used') fail(new HttpError(409, 'enrolment-code-used', 'This enrolment code has already been used; ask an administrator for a new one.'));
+      if (result.reason === 'expired') fail(new HttpError(410, 'enrolment-code-expired', 'This enrolment code has expired; ask an administrator for a new one.'));
+      return fail(new HttpError(400, 'enrolment-code-invalid', 'This enrolment code is not known; check it and type it again.'));
     }
     request.log.info({ deviceId, siteId: result.siteId }, 'device enrolled');
     return { deviceId, deviceToken, siteId: result.siteId };
