@@ -11,6 +11,7 @@ const OPERATOR = 'p-rana';
 const SUPERVISOR = 'p-tomasz';
 /** Signals in the last hours before `now` are left unanswered: what a supervisor would find open. */
 const OPEN_WINDOW_HOURS = 8;
+const FIRST_SAMPLE_OFFSET_MINUTES = 15;
 
 /** How each characteristic's process behaves in the demo. */
 interface ProcessModel {
@@ -105,7 +106,7 @@ export interface DemoHistory {
  * `analyze`; most signals get a Response (and some an Acknowledgement); the latest are left open.
  */
 export function buildDemoHistory(now: Date, seed = DEMO_SEED): DemoHistory {
-  const end = Math.floor(now.getTime() / HOUR) * HOUR;
+  const end = now.getTime();
   const historyStart = new Date(end - DEMO_HISTORY_DAYS * 24 * HOUR);
   const warnings: string[] = [];
   const samples: Sample[] = [];
@@ -119,7 +120,11 @@ export function buildDemoHistory(now: Date, seed = DEMO_SEED): DemoHistory {
     const rng = mulberry32(seed + 1000 * (k + 1));
     const idRng = mulberry32(seed + 1000 * (k + 1) + 1);
     const count = Math.floor((DEMO_HISTORY_DAYS * 24 * 60) / c.intervalMinutes);
-    const times = Array.from({ length: count }, (_, i) => historyStart.getTime() + i * c.intervalMinutes * 60_000 + integerBetween(rng, 0, 6) * 60_000);
+    // Offset so that the newest sample of each characteristic falls due 15–21 minutes after `now`.
+    const times = Array.from(
+      { length: count },
+      (_, i) => historyStart.getTime() + (i * c.intervalMinutes + FIRST_SAMPLE_OFFSET_MINUTES + integerBetween(rng, 0, 6)) * 60_000,
+    );
     const noise = drawNoise(rng, c, model, count);
 
     // Closed loop: the designed change lasts until the first signal after it begins, when the
