@@ -1,7 +1,8 @@
 /** The engine's facade: one JSON-serialisable description in, one JSON-serialisable result out. */
 import { studyCapability } from './capability';
 import { isAttributeChart } from './estimate';
-import { Evaluator } from './evaluator';
+import { Evaluator, type EvaluatorConfig } from './evaluator';
+import { EngineInputError } from './subgroup-stats';
 import type { Analysis, AnalysisInput } from './types';
 
 /**
@@ -11,18 +12,26 @@ import type { Analysis, AnalysisInput } from './types';
  */
 export function analyze(input: AnalysisInput): Analysis {
   const ev = new Evaluator(input);
-  ev.appendMany(input.subgroups);
+  if (input.individuals !== undefined) {
+    if (input.subgroups !== undefined) throw new EngineInputError('give either subgroups or individuals, not both');
+    ev.appendValues(input.individuals);
+  } else {
+    ev.appendMany(input.subgroups ?? []);
+  }
   return withCapability(ev, input);
 }
 
 /** The evaluator's current result plus capability when the input has a specification. */
-export function withCapability(ev: Evaluator, input: Omit<AnalysisInput, 'subgroups'>): Analysis {
+export function withCapability(ev: Evaluator, input: EvaluatorConfig): Analysis {
   const a = ev.analysis(true);
   const spec = input.spec;
   if (!spec || (spec.lsl === undefined && spec.usl === undefined)) return a;
-  if (isAttributeChart(input.chart)) return { ...a, warnings: [...a.warnings, 'Capability indices need measured values: not computed for an attribute chart.'] };
+  if (isAttributeChart(input.chart)) {
+    (a.warnings as string[]).push('Capability indices need measured values: not computed for an attribute chart.');
+    return a;
+  }
   const phase = a.phases[a.phases.length - 1];
   if (!phase) return a;
   const capability = studyCapability({ kind: input.chart, stats: ev.subgroupStats, phase, signals: a.signals, spec, sigmaMethod: input.sigmaMethod, confidence: input.confidence ?? 0.95 });
-  return { ...a, capability };
+  return ev.analysis(true, capability);
 }

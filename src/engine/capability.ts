@@ -27,7 +27,12 @@ export function studyCapability(c: CapabilityInput): Capability {
   if (!(c.confidence > 0 && c.confidence < 1)) throw new EngineInputError('the confidence level must be between 0 and 1');
   const { start, end } = c.phase;
   const obs: number[] = [];
-  for (let i = start; i < end; i++) if (!c.stats.excluded[i]) for (const v of c.stats.inputs[i]!.values ?? []) obs.push(v);
+  for (let i = start; i < end; i++) {
+    if (c.stats.excluded[i]) continue;
+    const raw = c.stats.raw.get(i);
+    if (raw) for (const v of raw) obs.push(v);
+    else obs.push(c.stats.value[i]!);
+  }
   const n = obs.length;
   const cautions: string[] = [];
   let mean = 0;

@@ -89,23 +89,28 @@ function estimateSigma(method: SigmaMethod, stats: SubgroupStats, from: number, 
   const sz = stats.size;
   let sigma: number;
   if (method === 'mr-mean' || method === 'mr-median') {
-    if (sz.slice(from, to).some((n) => n !== 1)) {
-      warnings.push('The moving-range estimate needs one value per subgroup.');
-      return null;
+    for (let i = from; i < to; i++) {
+      if (sz[i] !== 1) {
+        warnings.push('The moving-range estimate needs one value per subgroup.');
+        return null;
+      }
     }
+    // A moving range counts only when both of its points are included.
     const mrs: number[] = [];
-    for (let i = from + 1; i < to; i++) if (!ex[i] && !ex[i - 1] && Number.isFinite(sp[i]!)) mrs.push(sp[i]!);
-    if (mrs.length === 0) {
+    let sum = 0;
+    let k = 0;
+    for (let i = from + 1; i < to; i++) {
+      const m = sp[i]!;
+      if (ex[i] || ex[i - 1] || m !== m) continue; // m !== m: NaN, no moving range
+      sum += m;
+      k++;
+      if (method === 'mr-median') mrs.push(m);
+    }
+    if (k === 0) {
       warnings.push('At least 2 consecutive values are needed for a moving range: limits cannot be computed yet.');
       return null;
     }
-    if (method === 'mr-mean') {
-      let s = 0;
-      for (const m of mrs) s += m;
-      sigma = s / mrs.length / chartConstants(2).d2; // MR̄/d2(2)
-    } else {
-      sigma = median(mrs) / MEDIAN_MR_FACTOR; // median MR/0.953873
-    }
+    sigma = method === 'mr-mean' ? sum / k / chartConstants(2).d2 : median(mrs) / MEDIAN_MR_FACTOR; // MR̄/d2(2) or median MR/0.953873
   } else {
     let k = 0;
     let acc = 0;

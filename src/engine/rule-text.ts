@@ -5,7 +5,20 @@ type Side = 'above' | 'below';
 
 const sideWord = (side: Side): string => (side === 'above' ? 'above' : 'below');
 
+const cache = new Map<string, string>();
+
+/** The explanation for a rule and side (memoised: signals are frequent and the texts are few). */
 export function explainRule(rule: RuleCode, side: Side | undefined): string {
+  const key = side ? rule + side : rule;
+  let text = cache.get(key);
+  if (text === undefined) {
+    text = compose(rule, side);
+    cache.set(key, text);
+  }
+  return text;
+}
+
+function compose(rule: RuleCode, side: Side | undefined): string {
   const s = side ? sideWord(side) : '';
   switch (rule) {
     case 'we1':

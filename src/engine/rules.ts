@@ -9,13 +9,13 @@
 import { explainRule } from './rule-text';
 import type { RuleCode, Signal } from './types';
 
-const WINDOW = 16; // ring size ≥ the longest window (15) + 1
+const MASK = 15; // ring of 16 standardised values: more than the longest counting window (5)
 
 export const ALL_RULES: readonly RuleCode[] = ['we1', 'we2', 'we3', 'we4', 'n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8'];
 
 export class RuleEvaluator {
   private readonly on: Record<RuleCode, boolean>;
-  private readonly zs = new Float64Array(WINDOW);
+  private readonly zs = new Float64Array(MASK + 1);
   private count = 0; // points seen since reset
   private runAbove = 0;
   private runBelow = 0;
@@ -47,7 +47,7 @@ export class RuleEvaluator {
   push(index: number, value: number, z: number, out: Signal[]): void {
     const on = this.on;
     const c = this.count;
-    this.zs[index % WINDOW] = z;
+    this.zs[index & MASK] = z;
 
     // Counters first, so each rule below reads the state including this point.
     this.runAbove = z > 0 ? this.runAbove + 1 : 0;
@@ -93,13 +93,13 @@ export class RuleEvaluator {
     const up = z > 0;
     let hits = 0;
     for (let k = 0; k < span; k++) {
-      const zk = this.zs[(index - k) % WINDOW]!;
+      const zk = this.zs[(index - k) & MASK]!;
       if (up ? zk > limit : zk < -limit) hits++;
     }
     if (hits < m) return;
     const points: number[] = [];
     for (let k = span - 1; k >= 0; k--) {
-      const zk = this.zs[(index - k) % WINDOW]!;
+      const zk = this.zs[(index - k) & MASK]!;
       if (up ? zk > limit : zk < -limit) points.push(index - k);
     }
     const side = up ? 'above' : 'below';

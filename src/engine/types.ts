@@ -58,7 +58,12 @@ export interface SpecInput {
 
 export interface AnalysisInput {
   readonly chart: ChartKind;
-  readonly subgroups: readonly SubgroupInput[];
+  readonly subgroups?: readonly SubgroupInput[];
+  /**
+   * One value per subgroup, instead of `subgroups` (XmR, and EWMA / CUSUM on individuals):
+   * a plain or typed array, read without building an object per value. No exclusions in this form.
+   */
+  readonly individuals?: ArrayLike<number>;
   /** Default: one phase from 0 using every subgroup as its baseline. */
   readonly phases?: readonly PhaseInput[];
   /** Default: Western Electric 1–4. Ignored by EWMA and CUSUM. */

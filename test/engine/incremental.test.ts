@@ -13,7 +13,7 @@ function appendOneByOne(input: AnalysisInput) {
   const { subgroups, ...config } = input;
   const ev = new Evaluator(config);
   const froms: number[] = [];
-  for (const sg of subgroups) froms.push(ev.append(sg).from);
+  for (const sg of subgroups ?? []) froms.push(ev.append(sg));
   return { result: ev.analysis(), froms };
 }
 
