@@ -1,4 +1,5 @@
 import { analyze } from '../engine';
+import type { Analysis, AnalysisInput } from '../engine/types';
 import type { Acknowledgement, Characteristic, Phase, Response, Sample } from '../schema';
 import { buildChartSeries } from './analysis-input';
 import type { CharacteristicView } from './app-state';
@@ -15,7 +16,7 @@ export function buildCharacteristicView(
   now: number,
 ): CharacteristicView {
   const series = buildChartSeries(characteristic, phases, currentSamples);
-  const analysis = analyze(series.input);
+  const analysis = analyzeOrExplain(series.input);
   const groups = groupSignals(analysis, series.sampleIds, responses, acks);
   const lastTakenAt = series.samples[series.samples.length - 1]?.takenAt;
   return {
@@ -28,4 +29,18 @@ export function buildCharacteristicView(
     due: dueStatus(characteristic, lastTakenAt, now),
     ...(lastTakenAt ? { lastTakenAt } : {}),
   };
+}
+
+/**
+ * The engine refuses input it cannot chart (a sample without values, more defectives than inspected,
+ * perhaps pulled from another tablet). One such record must not take the screens down: the chart is
+ * left empty and a warning says why.
+ */
+function analyzeOrExplain(input: AnalysisInput): Analysis {
+  try {
+    return analyze(input);
+  } catch (e) {
+    const why = e instanceof Error ? e.message : String(e);
+    return { chart: input.chart, points: [], phases: [], signals: [], warnings: [`The chart cannot be drawn: ${why}`] };
+  }
 }

@@ -30,6 +30,7 @@ import {
   type SyncView,
 } from './app-state';
 import { buildCharacteristicView } from './build-view';
+import { entryProblem } from './entry-check';
 import { signalsAtNewest } from './signal-state';
 import { snapshotSignals } from './snapshots';
 
@@ -243,6 +244,11 @@ export function createPlumblineApp(deps: AppDeps) {
     async record(characteristicId, entry: EntryInput) {
       const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
       if (!ch || !identity || !state.person) return false;
+      const problem = entryProblem(ch, entry);
+      if (problem) {
+        set({ error: `The sample was NOT saved: ${problem}` });
+        return false;
+      }
       const sample: Sample = {
         kind: 'sample', id: deps.newId(), characteristicId, takenAt: new Date(deps.now()).toISOString(),
         recordedBy: state.person.id, deviceId: identity.deviceId,

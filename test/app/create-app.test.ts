@@ -1,0 +1,415 @@
+/**
+ * The app controller end to end: createPlumblineApp on a fake IndexedDB, with the real api client and
+ * sync engine talking to the real sync server (src/server on a temporary SQLite file, through fastify's
+ * inject). The server team's fixtures give the site, people and PINs (test/server/fixtures.ts).
+ */
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { createPlumblineApp, type PlumblineApp, type SmallStorage, type SyncPort } from '../../src/app/create-app';
+import {
+  getAcksForCharacteristic,
+  getCurrentSamplesForCharacteristic,
+  getDeviceIdentity,
+  getOutboxRow,
+  getResponsesForCharacteristic,
+  getSignedInPerson,
+  saveDeviceRecord,
+  type AppDb,
+} from '../../src/store';
+import { createApiClient } from '../../src/sync/api-client';
+import { createRecordIdGenerator } from '../../src/sync/ids';
+import { verifyOffline } from '../../src/sync/offline-verifier';
+import { createSyncEngine } from '../../src/sync/sync-engine';
+import { issueEnrolmentCode } from '../../src/server/routes/admin-enrolment-codes';
+import { SITE, startTestServer, type TestServer } from '../server/fixtures';
+import { closeAll, freshDb } from '../store/helpers';
+import { BASELINE } from './helpers';
+
+const BASE = 'http://tablet.test/api/v1';
+const HOUR = 3_600_000;
+
+// A fresh server per test: tablets pull every record of the site, so tests must not share one.
+let server: TestServer;
+beforeEach(async () => {
+  server = await startTestServer();
+});
+
+/** A Map behind the sessionStorage / localStorage surface. */
+function memoryStorage(): SmallStorage & { map: Map<string, string> } {
+  const map = new Map<string, string>();
+  return { map, getItem: (k) => map.get(k) ?? null, setItem: (k, v) => void map.set(k, v), removeItem: (k) => void map.delete(k) };
+}
+
+interface Tablet {
+  app: PlumblineApp;
+  db: AppDb;
+  /** The tablet's clock (ms); tests move it. */
+  clock: { t: number };
+  /** Set online = false and every request fails as if the network were down. */
+  net: { online: boolean };
+  session: ReturnType<typeof memoryStorage>;
+  /** Waits for every sync run the app started, and for the set-up reloads they trigger. */
+  settle(): Promise<void>;
+}
+
+const open: Tablet[] = [];
+
+afterEach(async () => {
+  for (const t of open.splice(0)) {
+    await t.settle();
+    t.app.stop();
+  }
+  closeAll();
+  await server.close();
+});
+
+/** fetch over fastify.inject, with a switch to take the network away. */
+function injectFetch(net: { online: boolean }): typeof fetch {
+  return (async (input: string, init?: RequestInit) => {
+    if (!net.online) throw new TypeError('fetch failed');
+    const url = new URL(input);
+    const res = await server.app.inject({
+      method: (init?.method ?? 'GET') as 'GET' | 'POST',
+      url: url.pathname + url.search,
+      headers: init?.headers as Record<string, string>,
+      ...(init?.body !== undefined ? { payload: String(init.body) } : {}),
+    });
+    const headers = new Headers();
+    for (const [k, v] of Object.entries(res.headers)) if (v !== undefined) headers.set(k, String(v));
+    return new Response(res.body, { status: res.statusCode, headers });
+  }) as unknown as typeof fetch;
+}
+
+/** A tablet app on its own fake IndexedDB (or on `db`, to model a restart). */
+async function tablet(opts: { db?: AppDb; session?: ReturnType<typeof memoryStorage> } = {}): Promise<Tablet> {
+  const db = opts.db ?? (await freshDb());
+  const clock = { t: server.now().getTime() };
+  const net = { online: true };
+  const api = createApiClient({ baseUrl: BASE, fetch: injectFetch(net), now: () => clock.t });
+  const inflight: Promise<unknown>[] = [];
+  const track = <T>(p: Promise<T>): Promise<T> => {
+    inflight.push(p);
+    return p;
+  };
+  const createSync = (): SyncPort => {
+    const engine = createSyncEngine({ db, api, now: () => clock.t, random: () => 0.5, locks: null, windowTarget: null, documentTarget: null });
+    // No timers: runs happen only when the app asks, so each test can wait for all of them.
+    return {
+      syncNow: () => track(engine.syncNow()),
+      start: () => void track(engine.syncNow({ ignoreBackoff: true })),
+      stop: () => engine.stop(),
+      getStatus: () => engine.getStatus(),
+      subscribe: (l) => engine.subscribe(l),
+    };
+  };
+  const ids = createRecordIdGenerator(() => clock.t);
+  const session = opts.session ?? memoryStorage();
+  const app = createPlumblineApp({ db, api, createSync, now: () => clock.t, newId: ids, session, prefs: memoryStorage() });
+  const settle = async () => {
+    for (let seen = -1; seen !== inflight.length; ) {
+      seen = inflight.length;
+      await Promise.allSettled(inflight);
+      await new Promise((r) => setTimeout(r, 5)); // the reload a finished run starts (reloadSetup → refreshViews)
+    }
+  };
+  const t = { app, db, clock, net, session, settle };
+  open.push(t);
+  return t;
+}
+
+async function enrolled(): Promise<Tablet> {
+  const t = await tablet();
+  await t.app.start();
+  const { code } = await issueEnrolmentCode(server.store, SITE, 'p-adm', server.now());
+  expect(await t.app.actions.enrol(code, 'Press 4 tablet')).toBe(true);
+  await t.settle();
+  return t;
+}
+
+async function signedIn(login = 'odile', pin = '1234'): Promise<Tablet> {
+  const t = await enrolled();
+  expect(await t.app.actions.signIn(login, pin)).toBe(true);
+  return t;
+}
+
+/** Twenty in-control lengths saved as if recorded on this tablet over the last 20 hours. */
+async function seedBaseline(t: Tablet): Promise<string[]> {
+  const deviceId = t.app.getState().device!.deviceId;
+  const ids = createRecordIdGenerator(() => t.clock.t - 21 * HOUR);
+  const saved: string[] = [];
+  for (const [i, v] of BASELINE.entries()) {
+    const id = ids();
+    await saveDeviceRecord(t.db, {
+      kind: 'sample', id, characteristicId: 'ch-len', takenAt: new Date(t.clock.t - (20 - i) * HOUR).toISOString(),
+      recordedBy: 'p-op', deviceId, values: [v],
+    });
+    saved.push(id);
+  }
+  return saved;
+}
+
+/** Signs in, seeds the baseline and records a length far above the limits. */
+async function withSignal(login = 'odile', pin = '1234') {
+  const t = await signedIn(login, pin);
+  const baseline = await seedBaseline(t);
+  expect(await t.app.actions.record('ch-len', { values: [11] })).toBe(true);
+  const prompt = t.app.getState().prompt!;
+  expect(prompt).toBeDefined();
+  return { t, baseline, prompt };
+}
+
+describe('start and enrolment', () => {
+  it('a tablet with no identity starts in the enrol stage', async () => {
+    const t = await tablet();
+    await t.app.start();
+    expect(t.app.getState()).toMatchObject({ stage: 'enrol', signedIn: [] });
+    expect(t.app.getState().device).toBeUndefined();
+  });
+
+  it('enrolling stores the identity, pulls the set-up and moves to sign-in', async () => {
+    const t = await enrolled();
+    const s = t.app.getState();
+    expect(s.stage).toBe('sign-in');
+    expect(s.error).toBeUndefined();
+    expect(s.device).toMatchObject({ deviceName: 'Press 4 tablet', siteId: SITE });
+    expect(await getDeviceIdentity(t.db)).toMatchObject({ deviceId: s.device!.deviceId, siteId: SITE, deviceName: 'Press 4 tablet' });
+    expect(s.setup.characteristics.map((c) => c.id).sort()).toEqual(['ch-def', 'ch-len']);
+    expect(s.stationId).toBe('st-1');
+  });
+
+  it('a wrong code keeps the enrol stage and says why', async () => {
+    const t = await tablet();
+    await t.app.start();
+    expect(await t.app.actions.enrol('NOT-A-CODE', 'Press 4 tablet')).toBe(false);
+    expect(t.app.getState().stage).toBe('enrol');
+    expect(t.app.getState().error).toBeTruthy();
+    expect(await getDeviceIdentity(t.db)).toBeUndefined();
+  });
+
+  it('enrolling without a network says the network is needed once', async () => {
+    const t = await tablet();
+    await t.app.start();
+    t.net.online = false;
+    expect(await t.app.actions.enrol('ANY', 'Press 4 tablet')).toBe(false);
+    expect(t.app.getState().error).toMatch(/cannot be reached.*needs the network once/);
+  });
+
+  it('after a restart an enrolled tablet goes straight to sign-in, and a remembered person straight to the board', async () => {
+    const first = await signedIn();
+    await first.settle();
+    first.app.stop();
+    const again = await tablet({ db: first.db });
+    await again.app.start();
+    expect(again.app.getState()).toMatchObject({ stage: 'sign-in', signedIn: [expect.objectContaining({ id: 'p-op' })] });
+    const resumed = await tablet({ db: first.db, session: first.session });
+    await resumed.app.start();
+    expect(resumed.app.getState()).toMatchObject({ stage: 'ready', person: { id: 'p-op', role: 'operator' } });
+  });
+});
+
+describe('sign-in', () => {
+  it('online: the person is signed in and the offline verifier is cached on the tablet', async () => {
+    const t = await signedIn();
+    const s = t.app.getState();
+    expect(s).toMatchObject({ stage: 'ready', person: { id: 'p-op', login: 'odile', role: 'operator' }, screen: { name: 'board' } });
+    expect(s.signedIn.map((p) => p.id)).toEqual(['p-op']);
+    expect(Object.keys(s.views).sort()).toEqual(['ch-def', 'ch-len']);
+    const cached = await getSignedInPerson(t.db, 'odile');
+    expect(cached).toMatchObject({ personId: 'p-op', role: 'operator' });
+    expect(await verifyOffline('1234', cached!.offlineVerifier)).toBe(true);
+    expect(t.session.map.get('plumbline.person')).toBe('p-op');
+  });
+
+  it('online with a wrong PIN: refused with a clear error', async () => {
+    const t = await enrolled();
+    expect(await t.app.actions.signIn('odile', '9999')).toBe(false);
+    expect(t.app.getState()).toMatchObject({ stage: 'sign-in', error: 'Login or PIN is not right.' });
+    expect(await getSignedInPerson(t.db, 'odile')).toBeUndefined();
+  });
+
+  it('offline: the right PIN works against the cached verifier, a wrong one fails clearly', async () => {
+    const t = await signedIn();
+    await t.settle();
+    t.app.actions.signOut();
+    expect(t.app.getState().stage).toBe('sign-in');
+    t.net.online = false;
+
+    expect(await t.app.actions.signIn('odile', '0000')).toBe(false);
+    expect(t.app.getState()).toMatchObject({ stage: 'sign-in', error: 'Login or PIN is not right.' });
+
+    expect(await t.app.actions.signIn('odile', '1234')).toBe(true);
+    expect(t.app.getState()).toMatchObject({ stage: 'ready', person: { id: 'p-op' } });
+    expect(t.app.getState().error).toBeUndefined();
+  });
+
+  it('offline: someone who never signed in on this tablet is told why they cannot', async () => {
+    const t = await enrolled();
+    t.net.online = false;
+    expect(await t.app.actions.signIn('sven', '2345')).toBe(false);
+    expect(t.app.getState().error).toBe('The server cannot be reached, and this person has not signed in on this tablet before.');
+  });
+});
+
+describe('record', () => {
+  it('saves an XmR sample and its outbox row, and the sync engine sends it', async () => {
+    const t = await signedIn();
+    t.clock.t += 5 * 60_000;
+    expect(await t.app.actions.record('ch-len', { values: [10.02], lot: 'L-17', comment: 'after tool change' })).toBe(true);
+    const [saved] = await getCurrentSamplesForCharacteristic(t.db, 'ch-len');
+    expect(saved).toMatchObject({
+      kind: 'sample', characteristicId: 'ch-len', values: [10.02], lot: 'L-17', comment: 'after tool change',
+      recordedBy: 'p-op', deviceId: t.app.getState().device!.deviceId, takenAt: new Date(t.clock.t).toISOString(),
+    });
+    expect((await getOutboxRow(t.db, saved!.id))?.kind).toBe('sample');
+    const s = t.app.getState();
+    expect(s.error).toBeUndefined();
+    expect(s.prompt).toBeUndefined();
+    expect(s.toast).toBe('Saved on this tablet');
+    expect(s.views['ch-len']!.series.sampleIds).toEqual([saved!.id]);
+    await t.settle();
+    expect((await getOutboxRow(t.db, saved!.id))?.state).toBe('acked');
+  });
+
+  it('a value beyond the limits after a full baseline opens the prompt with the rule', async () => {
+    const { t, prompt } = await withSignal();
+    const s = t.app.getState();
+    const view = s.views['ch-len']!;
+    const newest = view.series.sampleIds[view.series.sampleIds.length - 1]!;
+    expect(prompt.characteristicId).toBe('ch-len');
+    expect(prompt.sampleId).toBe(newest);
+    expect(prompt.signals.length).toBeGreaterThan(0);
+    expect(prompt.signals.every((x) => x.index === 20)).toBe(true);
+    expect(prompt.signals.find((x) => !x.companion)).toMatchObject({ rule: 'we1', side: 'above' });
+    expect(s.toast).toBe('Saved on this tablet — a run rule fired');
+    expect(view.groups[0]).toMatchObject({ sampleId: newest, state: 'unanswered' });
+  });
+
+  it('an in-control value after the baseline does not prompt', async () => {
+    const t = await signedIn();
+    await seedBaseline(t);
+    expect(await t.app.actions.record('ch-len', { values: [10.01] })).toBe(true);
+    expect(t.app.getState().prompt).toBeUndefined();
+  });
+
+  it('an attribute sample keeps its count and quantity inspected', async () => {
+    const t = await signedIn();
+    expect(await t.app.actions.record('ch-def', { count: 3, inspected: 120 })).toBe(true);
+    const [saved] = await getCurrentSamplesForCharacteristic(t.db, 'ch-def');
+    expect(saved).toMatchObject({ count: 3, inspected: 120 });
+    expect(saved!.values).toBeUndefined();
+    expect(t.app.getState().views['ch-def']!.series.input.subgroups).toEqual([{ count: 3, size: 120, excluded: false }]);
+  });
+
+  it('invalid input: state.error says the sample was not saved, record returns false and does not throw', async () => {
+    const t = await signedIn();
+    await expect(t.app.actions.record('ch-len', { values: [Number.NaN] })).resolves.toBe(false);
+    expect(t.app.getState().error).toMatch(/^The sample was NOT saved: /);
+    expect(await getCurrentSamplesForCharacteristic(t.db, 'ch-len')).toEqual([]);
+    // The next good save clears the error.
+    expect(await t.app.actions.record('ch-len', { values: [10] })).toBe(true);
+    expect(t.app.getState().error).toBeUndefined();
+  });
+
+  it('does nothing before anyone has signed in', async () => {
+    const t = await enrolled();
+    expect(await t.app.actions.record('ch-len', { values: [10] })).toBe(false);
+    expect(await getCurrentSamplesForCharacteristic(t.db, 'ch-len')).toEqual([]);
+  });
+});
+
+describe('answer, postpone, acknowledge', () => {
+  it('answer() saves a response whose snapshot freezes the rule, the limits and the samples', async () => {
+    const { t, prompt } = await withSignal();
+    const view = t.app.getState().views['ch-len']!;
+    const point = view.analysis.points[20]!;
+    t.clock.t += 2 * 60_000;
+    const ok = await t.app.actions.answer(prompt, { whatHappened: 'Bar stock changed', causeCategory: 'Material', cause: 'New supplier', action: 'Stop and call the setter.' });
+    expect(ok).toBe(true);
+    const [response] = await getResponsesForCharacteristic(t.db, 'ch-len');
+    expect(response).toMatchObject({
+      kind: 'response', characteristicId: 'ch-len', sampleId: prompt.sampleId, respondedBy: 'p-op',
+      whatHappened: 'Bar stock changed', causeCategory: 'Material', cause: 'New supplier', action: 'Stop and call the setter.',
+      respondedAt: new Date(t.clock.t).toISOString(),
+    });
+    const main = response!.signals.find((x) => x.sampleIds.length === 1)!;
+    expect(main).toMatchObject({ rule: 'we1', centre: point.centre, ucl: point.ucl, lcl: point.lcl, sampleIds: [prompt.sampleId] });
+    const mr = response!.signals.find((x) => x.sampleIds.length === 2);
+    if (mr) expect(mr).toMatchObject({ centre: point.companion!.centre, ucl: point.companion!.ucl, sampleIds: [view.series.sampleIds[19], prompt.sampleId] });
+    expect((await getOutboxRow(t.db, response!.id))?.kind).toBe('response');
+    const s = t.app.getState();
+    expect(s.prompt).toBeUndefined();
+    expect(s.toast).toBe('Answer saved on this tablet');
+    expect(s.views['ch-len']!.groups[0]).toMatchObject({ sampleId: prompt.sampleId, state: 'answered' });
+  });
+
+  it('postpone() closes the prompt but the signal stays unanswered; it can be reopened', async () => {
+    const { t, prompt } = await withSignal();
+    t.app.actions.postpone();
+    let s = t.app.getState();
+    expect(s.prompt).toBeUndefined();
+    expect(s.toast).toMatch(/stays open/);
+    t.app.actions.open({ name: 'board' });
+    await t.settle();
+    s = t.app.getState();
+    expect(s.views['ch-len']!.groups.find((g) => g.sampleId === prompt.sampleId)?.state).toBe('unanswered');
+    expect(await getResponsesForCharacteristic(t.db, 'ch-len')).toEqual([]);
+    t.app.actions.reopenPrompt('ch-len', prompt.sampleId);
+    expect(t.app.getState().prompt).toMatchObject({ characteristicId: 'ch-len', sampleId: prompt.sampleId });
+  });
+
+  it('acknowledge() is refused for an operator and allowed for a supervisor', async () => {
+    const { t, prompt } = await withSignal();
+    expect(await t.app.actions.answer(prompt, { whatHappened: 'Chip on the insert', causeCategory: 'Machine', action: 'Stop and call the setter.' })).toBe(true);
+    const [response] = await getResponsesForCharacteristic(t.db, 'ch-len');
+
+    expect(await t.app.actions.acknowledge('ch-len', response!.id)).toBe(false);
+    expect(t.app.getState().error).toBe('Only a supervisor, engineer or admin can sign off a signal.');
+    expect(await getAcksForCharacteristic(t.db, 'ch-len')).toEqual([]);
+
+    t.app.actions.addPerson();
+    expect(await t.app.actions.signIn('sven', '2345')).toBe(true);
+    expect(t.app.getState().person?.role).toBe('supervisor');
+    expect(t.app.getState().signedIn.map((p) => p.id).sort()).toEqual(['p-op', 'p-sup']);
+    expect(await t.app.actions.acknowledge('ch-len', response!.id, 'Setter confirmed')).toBe(true);
+    const [ack] = await getAcksForCharacteristic(t.db, 'ch-len');
+    expect(ack).toMatchObject({ kind: 'ack', responseId: response!.id, by: 'p-sup', note: 'Setter confirmed' });
+    expect(t.app.getState().views['ch-len']!.groups[0]).toMatchObject({ state: 'closed', ack: { id: ack!.id } });
+    await t.settle();
+    expect((await getOutboxRow(t.db, ack!.id))?.state).toBe('acked');
+  });
+});
+
+describe('records the engine cannot chart', () => {
+  it('record() refuses an entry that does not fit the chart, before anything is saved', async () => {
+    const t = await signedIn();
+    const cases: [string, Parameters<PlumblineApp['actions']['record']>[1], RegExp][] = [
+      ['ch-len', {}, /Length is measured/],
+      ['ch-len', { count: 2 }, /Length is measured/],
+      ['ch-def', { values: [1] }, /Defectives is counted/],
+      ['ch-def', { count: 3 }, /quantity inspected/],
+      ['ch-def', { count: 150, inspected: 100 }, /More nonconforming items \(150\) than items inspected \(100\)/],
+    ];
+    for (const [id, entry, message] of cases) {
+      await expect(t.app.actions.record(id, entry)).resolves.toBe(false);
+      expect(t.app.getState().error).toMatch(/^The sample was NOT saved: /);
+      expect(t.app.getState().error).toMatch(message);
+    }
+    expect(await getCurrentSamplesForCharacteristic(t.db, 'ch-len')).toEqual([]);
+    expect(await getCurrentSamplesForCharacteristic(t.db, 'ch-def')).toEqual([]);
+  });
+
+  it('a stored sample the engine refuses (e.g. from another tablet) empties that chart with a warning; the rest keeps working', async () => {
+    const t = await signedIn();
+    // Valid for the schema, impossible for a p chart: 150 defectives out of 100 inspected.
+    await saveDeviceRecord(t.db, {
+      kind: 'sample', id: createRecordIdGenerator(() => t.clock.t - HOUR)(), characteristicId: 'ch-def',
+      takenAt: new Date(t.clock.t - HOUR).toISOString(), recordedBy: 'p-op', deviceId: 'dev-other', count: 150, inspected: 100,
+    });
+    await expect(t.app.actions.record('ch-len', { values: [10] })).resolves.toBe(true);
+    t.app.actions.open({ name: 'board' });
+    await t.settle();
+    const s = t.app.getState();
+    expect(s.views['ch-len']!.analysis.points).toHaveLength(1);
+    expect(s.views['ch-def']!.analysis.points).toEqual([]);
+    expect(s.views['ch-def']!.analysis.warnings.join(' ')).toMatch(/cannot be drawn.*150 defectives out of 100 inspected/);
+  });
+});
