@@ -1,6 +1,7 @@
 import { analyze, type Analysis, type AnalysisInput, type ChartKind, type RuleCode, type Signal, type SubgroupInput } from '../../engine/index';
 import { RuleId, type Acknowledgement, type Characteristic, type Response, type Sample, type SignalSnapshot } from '../../schema/index';
 import { DEMO_CHARACTERISTICS, DEMO_DEVICE_ID, DEMO_HISTORY_DAYS, demoPhaseId } from './demo-site';
+import { BLEMISH_BURST, MODELS, TORQUE_OUTLIER, type ProcessModel, type Story } from './demo-process';
 import { binomial, integerBetween, mulberry32, normal, poisson, seededUuidV7, type Random } from './prng';
 
 /** The seed of the demo history; change it and every number in the demo changes. */
@@ -12,72 +13,6 @@ const SUPERVISOR = 'p-tomasz';
 /** Signals in the last hours before `now` are left unanswered: what a supervisor would find open. */
 const OPEN_WINDOW_HOURS = 8;
 const FIRST_SAMPLE_OFFSET_MINUTES = 15;
-
-/** How each characteristic's process behaves in the demo. */
-interface ProcessModel {
-  readonly mean: number;
-  readonly sigma: number;
-  /** Designed change of the mean at subgroup i (before the closed loop cuts it off). */
-  readonly effect?: { readonly from: number; readonly at: (i: number) => number; readonly story: Story };
-}
-
-interface Story {
-  readonly whatHappened: string;
-  readonly causeCategory: string;
-  readonly cause: string;
-  readonly action: string;
-}
-
-const MODELS: Readonly<Record<string, ProcessModel>> = {
-  // A sustained shift: the mean steps up after an insert change and stays there until the chart catches it.
-  'bore-dia': {
-    mean: 25.0,
-    sigma: 0.004,
-    effect: {
-      from: 310,
-      at: () => 0.0026,
-      story: {
-        whatHappened: 'Bore means ran above the centre line from the night shift on, after the boring insert was changed.',
-        causeCategory: 'Machine',
-        cause: 'New insert seated proud in its pocket',
-        action: 'Re-seated the insert and corrected the tool offset by -0.003 mm; parts since the insert change re-measured, all in tolerance.',
-      },
-    },
-  },
-  'bonnet-torque': { mean: 25.0, sigma: 0.6 },
-  // A slow trend: the fill weight creeps up as the dosing nozzle clogs.
-  'fill-weight': {
-    mean: 502.0,
-    sigma: 0.8,
-    effect: {
-      from: 150,
-      at: (i) => 0.012 * (i - 150),
-      story: {
-        whatHappened: 'Fill weight crept upward over more than a day; no single subgroup looked wrong.',
-        causeCategory: 'Machine',
-        cause: 'Dosing nozzle partly blocked by cured sealant; the pump stroke had been lengthened to compensate',
-        action: 'Inspected and cleaned the dosing nozzle, reset the dose volume to the standard setting and recorded it.',
-      },
-    },
-  },
-  'coating-blemish': { mean: 3.2, sigma: 0 },
-  'leak-fail': { mean: 0.04, sigma: 0 },
-};
-
-/** One outlier: a single torque reading far above the rest. */
-const TORQUE_OUTLIER = {
-  index: 200,
-  value: 27.8,
-  story: {
-    whatHappened: 'One bonnet read 27.8 N·m, far above every other reading of the day.',
-    causeCategory: 'Machine',
-    cause: 'Nutrunner clutch slipped and the spindle hit the bolt twice',
-    action: 'Stopped the station, checked the nutrunner on the torque analyser, re-torqued the two held assemblies and replaced the clutch spring.',
-  },
-};
-
-/** A burst of blemishes in the last hours, left open for the demo. */
-const BLEMISH_BURST = { hoursBeforeEnd: 3, count: 14 };
 
 export interface DemoSignal {
   readonly characteristicId: string;
