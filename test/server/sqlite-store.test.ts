@@ -7,6 +7,19 @@ import { contentHash } from '../../src/server/canonical-json';
 import { MIGRATIONS } from '../../src/server/store/sqlite-migrations';
 import { applyMigrations, openSqliteStore, type SqliteStore } from '../../src/server/store/sqlite-store';
 import { makeSample } from './fixtures';
+import { describeServerStoreContract } from './store-contract';
+
+describeServerStoreContract('SQLite', async () => {
+  const dir = mkdtempSync(join(tmpdir(), 'plumbline-contract-'));
+  const store = openSqliteStore(join(dir, 'store.sqlite'));
+  return {
+    store,
+    dispose: async () => {
+      await store.close();
+      rmSync(dir, { recursive: true, force: true });
+    },
+  };
+});
 
 let dir: string;
 let path: string;
