@@ -7,10 +7,6 @@ import { createSyncEngine } from './sync/sync-engine';
 import { App } from './ui/App';
 import './ui/styles.css';
 
-if (matchMedia('(prefers-color-scheme: dark)').matches || localStorage.getItem('plumbline.theme') === 'dark') {
-  document.documentElement.dataset.theme = localStorage.getItem('plumbline.theme') ?? 'dark';
-}
-
 async function boot() {
   const db = await openAppDb(undefined, {
     onVersionChange: () => location.reload(),
@@ -25,6 +21,7 @@ async function boot() {
     newId: newRecordId,
     session: sessionStorage,
     prefs: localStorage,
+    defaultTheme: matchMedia('(prefers-color-scheme: dark)').matches ? 'dark' : 'light',
   });
   render(<App app={app} locale={navigator.language} />, document.getElementById('app')!);
   await app.start();

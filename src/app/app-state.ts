@@ -63,6 +63,7 @@ export interface AppState {
   readonly toast?: string;
   readonly error?: string;
   readonly now: number;
+  readonly theme: 'light' | 'dark';
 }
 
 export interface EntryInput {
@@ -94,6 +95,11 @@ export interface AppActions {
   postpone(): void;
   reopenPrompt(characteristicId: string, sampleId: string): void;
   acknowledge(characteristicId: string, responseId: string, note?: string): Promise<boolean>;
+  /** A correction: a new sample that supersedes `sampleId`, with a reason. Nothing is overwritten. */
+  correct(characteristicId: string, sampleId: string, entry: EntryInput, reason: string): Promise<boolean>;
+  /** Leave a point out of (or back in) the limit calculation: engineer only, with a reason. */
+  setExcluded(characteristicId: string, sampleId: string, excluded: boolean, reason: string): Promise<boolean>;
+  setTheme(theme: 'light' | 'dark'): void;
   syncNow(): Promise<void>;
   dismissToast(): void;
 }

@@ -59,9 +59,12 @@ export interface AppDeps {
   readonly newId: () => string;
   readonly session: SmallStorage;
   readonly prefs: SmallStorage;
+  /** The theme before the person chooses one (e.g. from prefers-color-scheme). */
+  readonly defaultTheme?: 'light' | 'dark';
 }
 
 const SUPERVISING: readonly Person['role'][] = ['supervisor', 'engineer', 'admin'];
+const ENGINEERING: readonly Person['role'][] = ['engineer', 'admin'];
 
 function toPerson(p: SignedInPerson): Person {
   return { id: p.personId, name: p.name, login: p.login, role: p.role, active: true };
@@ -91,6 +94,7 @@ export function createPlumblineApp(deps: AppDeps) {
   let state: AppState = {
     stage: 'starting', signedIn: [], setup: EMPTY_SETUP, screen: { name: 'board' }, views: {},
     sync: { state: 'idle', pending: 0, rejected: 0 }, now: deps.now(),
+    theme: (deps.prefs.getItem('plumbline.theme') ?? deps.defaultTheme ?? 'light') === 'dark' ? 'dark' : 'light',
   };
   const listeners = new Set<() => void>();
   let identity: DeviceIdentity | undefined;
@@ -328,6 +332,42 @@ export function createPlumblineApp(deps: AppDeps) {
       return true;
     },
 
+    async correct(characteristicId, sampleId, entry, reason) {
+      const view = state.views[characteristicId];
+      const original = view?.series.samples.find((s) => s.id === sampleId);
+      if (!original || !identity || !state.person) return false;
+      if (!reason.trim()) {
+        set({ error: 'A correction needs a reason.' });
+        return false;
+      }
+      return saveSupersedingSample(characteristicId, original, {
+        ...(entry.values ? { values: [...entry.values] } : {}),
+        ...(entry.count !== undefined ? { count: entry.count } : {}),
+        ...(entry.inspected !== undefined ? { inspected: entry.inspected } : {}),
+        reason: reason.trim(),
+      }, 'correction');
+    },
+
+    async setExcluded(characteristicId, sampleId, excluded, reason) {
+      const view = state.views[characteristicId];
+      const original = view?.series.samples.find((s) => s.id === sampleId);
+      if (!original || !identity || !state.person) return false;
+      if (!ENGINEERING.includes(state.person.role)) {
+        set({ error: 'Only a quality engineer (or admin) can leave a point out of the limit calculation.' });
+        return false;
+      }
+      if (!reason.trim()) {
+        set({ error: 'Leaving a point out of the limits needs a reason.' });
+        return false;
+      }
+      return saveSupersedingSample(characteristicId, original, { excluded, reason: reason.trim() }, excluded ? 'exclusion' : 'inclusion');
+    },
+
+    setTheme(theme) {
+      deps.prefs.setItem('plumbline.theme', theme);
+      set({ theme });
+    },
+
     async syncNow() {
       await sync?.syncNow();
     },
@@ -335,6 +375,29 @@ export function createPlumblineApp(deps: AppDeps) {
       set({ toast: undefined });
     },
   };
+
+  /** Writes a new sample that takes `original`'s place (same time), carrying over what `patch` does not change. */
+  async function saveSupersedingSample(characteristicId: string, original: Sample, patch: Partial<Sample>, what: string): Promise<boolean> {
+    const { id: _oldId, recordedBy: _by, deviceId: _dev, supersedes: _sup, reason: _reason, ...kept } = original;
+    const replacement: Sample = {
+      ...kept,
+      ...(patch.values ? { values: patch.values, count: undefined, inspected: undefined } : {}),
+      ...patch,
+      kind: 'sample', id: deps.newId(), supersedes: original.id,
+      recordedBy: state.person!.id, deviceId: identity!.deviceId,
+    };
+    for (const k of Object.keys(replacement) as (keyof Sample)[]) if (replacement[k] === undefined) delete replacement[k];
+    try {
+      await saveDeviceRecord(db, replacement, deps.now());
+    } catch (e) {
+      set({ error: `The ${what} was NOT saved: ${messageOf(e)}` });
+      return false;
+    }
+    await refreshViews([characteristicId]);
+    toast(`The ${what} is saved on this tablet; the original stays in the record`);
+    void sync?.syncNow();
+    return true;
+  }
 
   const tick = setInterval(() => {
     if (state.stage === 'ready') void refreshViews();

@@ -1,4 +1,4 @@
-import { useMemo } from 'preact/hooks';
+import { useEffect, useMemo } from 'preact/hooks';
 import { decimalSeparatorFor } from '../app/number-entry';
 import { CharacteristicScreen } from './CharacteristicScreen';
 import { EnrolScreen } from './EnrolScreen';
@@ -12,6 +12,9 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
   const state = useAppState(app);
   const { actions } = app;
   const separator = useMemo(() => decimalSeparatorFor(locale), [locale]);
+  useEffect(() => {
+    document.documentElement.dataset.theme = state.theme;
+  }, [state.theme]);
   const promptChar = state.prompt && state.setup.characteristics.find((c) => c.id === state.prompt!.characteristicId);
   const site = state.setup.causeLists.find((c) => c.siteId === state.device?.siteId);
   let body;

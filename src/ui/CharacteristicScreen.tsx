@@ -33,7 +33,7 @@ export function CharacteristicScreen({ state, actions, characteristicId, separat
       {view?.analysis.warnings.map((w) => <p class="caution" key={w}>{w}</p>)}
       <div class="char-layout">
         <div class="stack area-chart">
-          {view ? <ChartPanel view={view} /> : <p class="hint">Loading chart…</p>}
+          {view ? <ChartPanel view={view} state={state} actions={actions} /> : <p class="hint">Loading chart…</p>}
           {phase && last ? (
             <div class="figures" aria-label="Current limits">
               <div class="figure"><div class="k">Centre</div><div class="v">{f(last.centre)}</div></div>

@@ -24,10 +24,11 @@ export function SignInScreen({ state, actions }: { state: AppState; actions: App
         <h1 id="signin-title">Who is at the machine?</h1>
         {state.signedIn.length ? (
           <div class="stack">
-            <span class="hint">Already on this tablet — tap to switch:</span>
+            <span class="hint">Signed in on this tablet before — tap your name, then enter your PIN:</span>
             <div class="person-grid">
               {state.signedIn.map((p) => (
-                <button type="button" class="btn" key={p.id} onClick={() => actions.switchPerson(p.id)}>{p.name}</button>
+                <button type="button" class={`btn${p.login === login ? ' primary' : ''}`} key={p.id} aria-pressed={p.login === login}
+                  onClick={() => { setLogin(p.login); setPin(''); }}>{p.name}</button>
               ))}
             </div>
           </div>

@@ -46,6 +46,10 @@ export function TopBar({ state, actions }: { state: AppState; actions: AppAction
         <span class="dot" aria-hidden="true" />
         <span>{sync.text}</span>
       </button>
+      <button type="button" class="pill" onClick={() => actions.setTheme(state.theme === 'dark' ? 'light' : 'dark')}
+        aria-label={state.theme === 'dark' ? 'Use the light theme' : 'Use the dark theme'} data-testid="theme-toggle">
+        {state.theme === 'dark' ? '☀ Light' : '☾ Dark'}
+      </button>
       {state.person ? (
         <button type="button" class="pill" onClick={() => actions.signOut()} data-testid="person-pill" title="Change person">
           {state.person.name} · {state.person.role}

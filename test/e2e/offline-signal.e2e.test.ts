@@ -4,78 +4,42 @@
  * answer the prompt, go online, and check that the server holds the sample and the response
  * exactly once.
  */
-import { mkdirSync, mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createServer } from '../../src/server/create-server';
 import { DEMO_SITE_ID } from '../../src/server/demo/demo-site';
-import { seedDemo } from '../../src/server/demo/seed-demo';
-import { issueEnrolmentCode } from '../../src/server/routes/admin-enrolment-codes';
-import { openSqliteStore } from '../../src/server/store/sqlite-store';
-import type { ServerStore } from '../../src/server/store/server-store';
 import { browserAvailable, distBuilt, launchTablet } from './browser';
+import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite } from './site';
 
 const run = browserAvailable();
 const SHOTS = resolve('test-results/screenshots');
-
-async function recordsOnServer(store: ServerStore): Promise<Map<string, number>> {
-  const counts = new Map<string, number>();
-  let after = 0;
-  for (;;) {
-    const rows = await store.readLog(DEMO_SITE_ID, after, 1000);
-    if (!rows.length) break;
-    for (const r of rows) if (r.entry.kind === 'record') counts.set(r.entry.id, (counts.get(r.entry.id) ?? 0) + 1);
-    after = rows[rows.length - 1]!.serverSeq;
-  }
-  return counts;
-}
 
 async function shot(page: Page, name: string) {
   await page.screenshot({ path: join(SHOTS, `${name}.png`), fullPage: false });
 }
 
 describe.skipIf(!run)('a tablet offline: record, flag, answer, sync', () => {
-  let store: ServerStore;
-  let app: ReturnType<typeof createServer>;
-  let base = '';
+  let site: DemoSite;
   let tablet: BrowserContext;
-  let code = '';
 
   beforeAll(async () => {
     distBuilt();
     mkdirSync(SHOTS, { recursive: true });
-    const dir = mkdtempSync(join(tmpdir(), 'plumbline-e2e-'));
-    store = openSqliteStore(join(dir, 'site.sqlite'));
-    await seedDemo(store, new Date());
-    code = (await issueEnrolmentCode(store, DEMO_SITE_ID, 'p-marguerite', new Date(), 60)).code;
-    app = createServer({ store, distDir: resolve('dist'), logger: false });
-    await app.listen({ host: '127.0.0.1', port: 0 });
-    const address = app.server.address();
-    base = `http://127.0.0.1:${typeof address === 'object' && address ? address.port : 0}`;
+    site = await startDemoSite();
     tablet = await launchTablet();
   });
 
   afterAll(async () => {
     await tablet?.close();
-    await app?.close();
+    await site?.close();
   });
 
   it('works end to end', async () => {
     const page = tablet.pages()[0] ?? (await tablet.newPage());
     const errors: string[] = [];
     page.on('pageerror', (e) => errors.push(e.message));
-    await page.goto(base);
-
-    // Enrol and sign in (needs the network once).
-    await page.getByLabel('Connection code').fill(code);
-    await page.getByLabel('Name of this tablet').fill('Assembly tablet');
-    await page.getByRole('button', { name: 'Connect tablet' }).click();
-    await page.getByLabel('Login').fill('rana');
-    await page.getByLabel('PIN').fill('2468');
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await expect.poll(() => page.locator('.tile').count(), { timeout: 15_000 }).toBeGreaterThan(0);
+    await enrolAndSignIn(page, site, 'rana', '2468', 'Assembly tablet');
     await shot(page, 'station-board-1280x800');
 
     // The service worker controls the page before we pull the plug.
@@ -110,21 +74,21 @@ describe.skipIf(!run)('a tablet offline: record, flag, answer, sync', () => {
     await shot(page, 'chart-after-answer-1280x800');
 
     // Back online: the outbox drains and the server holds each record once.
-    const before = await recordsOnServer(store);
+    const before = await recordsOnServer(site.store);
     await tablet.setOffline(false);
     await page.getByTestId('sync-pill').click();
     await expect.poll(() => page.getByTestId('sync-pill').innerText(), { timeout: 20_000 }).toMatch(/All sent/);
-    const after = await recordsOnServer(store);
+    const after = await recordsOnServer(site.store);
     const added = [...after].filter(([id]) => !before.has(id));
     expect(added).toHaveLength(2);
     for (const [, n] of added) expect(n).toBe(1);
-    const kinds = await Promise.all(added.map(async ([id]) => (await store.readLog(DEMO_SITE_ID, 0, 100000)).find((r) => r.entry.kind === 'record' && r.entry.id === id)!.entry));
+    const kinds = await Promise.all(added.map(async ([id]) => (await site.store.readLog(DEMO_SITE_ID, 0, 100000)).find((r) => r.entry.kind === 'record' && r.entry.id === id)!.entry));
     expect(kinds.map((k) => (k.kind === 'record' ? k.body.kind : k.kind)).sort()).toEqual(['response', 'sample']);
 
     // A second sync sends nothing again.
     await page.getByTestId('sync-pill').click();
     await page.waitForTimeout(500);
-    expect((await recordsOnServer(store)).size).toBe(after.size);
+    expect((await recordsOnServer(site.store)).size).toBe(after.size);
 
     await page.setViewportSize({ width: 800, height: 1280 });
     await shot(page, 'chart-800x1280');

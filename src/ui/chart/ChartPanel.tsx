@@ -1,7 +1,8 @@
 import { useMemo, useState } from 'preact/hooks';
-import type { CharacteristicView } from '../../app/app-state';
+import type { AppActions, AppState, CharacteristicView } from '../../app/app-state';
 import { ruleTag } from '../rule-text';
 import { ControlChart, type PlotFlag, type PlotPoint } from './ControlChart';
+import { PointDetails } from './PointDetails';
 
 const COMPANION_NAME: Record<string, string> = { xmr: 'Moving range', 'xbar-r': 'Range', 'xbar-s': 'Standard deviation' };
 const MAIN_NAME: Record<string, string> = {
@@ -9,8 +10,9 @@ const MAIN_NAME: Record<string, string> = {
 };
 
 /** The main chart and its companion (range / moving range / s) for one characteristic. */
-export function ChartPanel({ view }: { view: CharacteristicView }) {
+export function ChartPanel({ view, state, actions }: { view: CharacteristicView; state: AppState; actions: AppActions }) {
   const [whole, setWhole] = useState(false);
+  const [selected, setSelected] = useState<number | null>(null);
   const { analysis, characteristic: ch } = view;
   const isAttribute = !(ch.chartType in COMPANION_NAME);
   const main = useMemo<PlotPoint[]>(
@@ -61,14 +63,16 @@ export function ChartPanel({ view }: { view: CharacteristicView }) {
         <span><i class="legend-flag" />run rule fired</span>
       </div>
       <ControlChart label={label} points={main} flags={flags} phaseStarts={phaseStarts} spec={spec} decimals={ch.decimals + (isAttribute && ch.chartType !== 'c' && ch.chartType !== 'np' ? 3 : 1)}
-        height={320} showZones window={window} testId="main-chart" />
+        height={320} showZones window={window} testId="main-chart" onPick={setSelected} selected={selected} />
       {isAttribute ? null : (
         <>
           <h3>{COMPANION_NAME[ch.chartType]}</h3>
           <ControlChart label={`${COMPANION_NAME[ch.chartType]} chart of ${ch.name}`} points={companion} flags={companionFlags} phaseStarts={phaseStarts}
-            decimals={ch.decimals + 1} height={160} showZones={false} window={window} testId="companion-chart" />
+            decimals={ch.decimals + 1} height={160} showZones={false} window={window} testId="companion-chart" onPick={setSelected} selected={selected} />
         </>
       )}
+      <p class="chart-hint">Tap a point for its details · drag across the chart to zoom · “{whole ? 'Latest 40 points' : 'Whole history'}” to change the span.</p>
+      {selected !== null ? <PointDetails view={view} index={selected} state={state} actions={actions} onClose={() => setSelected(null)} /> : null}
     </section>
   );
 }

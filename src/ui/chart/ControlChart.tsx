@@ -35,6 +35,10 @@ export interface ControlChartProps {
   /** How many of the latest points to show; the rest is reached with "whole history". */
   readonly window: number;
   readonly testId?: string;
+  /** Called with the point's index when a point is tapped. */
+  readonly onPick?: (index: number) => void;
+  /** The point shown in the details panel: ringed on the chart. */
+  readonly selected?: number | null;
 }
 
 function cssVar(el: Element, name: string, fallback: string): string {
@@ -79,6 +83,7 @@ export function ControlChart(props: ControlChartProps) {
       ink: cssVar(el, '--ink', '#14232b'),
       soft: cssVar(el, '--ink-soft', '#3d4d56'),
       surface: cssVar(el, '--surface', '#fff'),
+      focus: cssVar(el, '--focus', '#1f6feb'),
     };
     const stepped = uPlot.paths.stepped!({ align: 1 });
     const fmt = (v: number) => v.toFixed(latest.current.decimals);
@@ -102,6 +107,17 @@ export function ControlChart(props: ControlChartProps) {
         ctx.fillStyle = colour.soft;
         ctx.font = `${12 * dpr}px sans-serif`;
         ctx.fillText(`phase ${p.phaseStarts.indexOf(start) + 1}`, px + 4 * dpr, u.bbox.top + 14 * dpr);
+      }
+      // The selected point: a ring in the focus colour.
+      if (p.selected !== null && p.selected !== undefined) {
+        const v = p.points[p.selected]?.value;
+        if (v !== null && v !== undefined) {
+          ctx.beginPath();
+          ctx.arc(u.valToPos(p.selected + 1, 'x', true), u.valToPos(v, 'y', true), 13 * dpr, 0, 2 * Math.PI);
+          ctx.lineWidth = 3 * dpr;
+          ctx.strokeStyle = colour.focus;
+          ctx.stroke();
+        }
       }
       // Flags: a diamond around each flagged point, filled while open, with the rule tag.
       ctx.font = `bold ${13 * dpr}px sans-serif`;
@@ -157,6 +173,12 @@ export function ControlChart(props: ControlChartProps) {
     };
     const u = new uPlot(opts, buildData(latest.current), el);
     plot.current = u;
+    // A tap picks the nearest point (uPlot tracks the cursor's nearest index).
+    const pick = () => {
+      const i = u.cursor.idx;
+      if (i !== null && i !== undefined) latest.current.onPick?.(i);
+    };
+    u.over.addEventListener('click', pick);
     const ro = new ResizeObserver(() => u.setSize({ width: el.clientWidth || 600, height: latest.current.height }));
     ro.observe(el);
     return () => {
@@ -175,6 +197,8 @@ export function ControlChart(props: ControlChartProps) {
     const from = Math.max(1, n - props.window + 1);
     u.setScale('x', { min: from - 0.5, max: Math.max(n, from + 1) + 0.5 });
   }, [props.points, props.flags, props.window, props.spec, props.showZones, props.phaseStarts]);
+
+  useEffect(() => plot.current?.redraw(false), [props.selected]);
 
   return <div ref={host} class="chart-canvas" role="img" aria-label={props.label} data-testid={props.testId} />;
 }

@@ -1,0 +1,101 @@
+/**
+ * Every screen at tablet sizes, in the light and the dark theme: axe-core finds no WCAG 2.1 AA
+ * violation, and a screenshot of each is kept in test-results/screenshots for people to look at.
+ */
+import { mkdirSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import type { BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEMO_CHARACTERISTICS } from '../../src/server/demo/demo-site';
+import { axeViolations } from './axe';
+import { browserAvailable, distBuilt, launchTablet } from './browser';
+import { signIn, startDemoSite, type DemoSite } from './site';
+
+const run = browserAvailable();
+const SHOTS = resolve('test-results/screenshots');
+const SIZES = [
+  { name: 'landscape', width: 1280, height: 800 },
+  { name: 'portrait', width: 800, height: 1280 },
+] as const;
+
+async function check(page: Page, name: string): Promise<string[]> {
+  const problems: string[] = [];
+  for (const size of SIZES) {
+    await page.setViewportSize(size);
+    await page.waitForTimeout(150); // one layout pass for the charts' resize observers
+    await page.screenshot({ path: join(SHOTS, `${name}-${size.width}x${size.height}.png`) });
+    for (const v of await axeViolations(page)) problems.push(`${name} @${size.name}: ${v.id} (${v.impact}) ${v.help} → ${v.nodes.slice(0, 3).join(', ')}`);
+  }
+  return problems;
+}
+
+describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
+  let site: DemoSite;
+  let tablet: BrowserContext;
+
+  beforeAll(async () => {
+    distBuilt();
+    mkdirSync(SHOTS, { recursive: true });
+    site = await startDemoSite();
+    tablet = await launchTablet();
+  });
+  afterAll(async () => {
+    await tablet?.close();
+    await site?.close();
+  });
+
+  it('have no accessibility violations', async () => {
+    const page = tablet.pages()[0] ?? (await tablet.newPage());
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(e.message));
+    const problems: string[] = [];
+    await page.goto(site.base);
+    await page.getByLabel('Connection code').waitFor();
+    problems.push(...(await check(page, 'enrol')));
+    await page.getByLabel('Connection code').fill(await site.newCode());
+    await page.getByLabel('Name of this tablet').fill('Quality office tablet');
+    await page.getByRole('button', { name: 'Connect tablet' }).click();
+    await page.getByLabel('Login').waitFor();
+    problems.push(...(await check(page, 'sign-in')));
+    await signIn(page, 'tomasz', '1357');
+
+    for (const theme of ['light', 'dark'] as const) {
+      if (theme === 'dark') await page.getByTestId('theme-toggle').click();
+      await expect.poll(() => page.evaluate(() => document.documentElement.dataset.theme)).toBe(theme);
+      problems.push(...(await check(page, `board-${theme}`)));
+      for (const ch of DEMO_CHARACTERISTICS) {
+        await page.getByRole('button', { name: '← Station board' }).click().catch(() => undefined);
+        const tile = page.getByTestId(`tile-${ch.id}`);
+        if (!(await tile.count())) {
+          // The characteristic lives at another station: pick each station until it shows.
+          for (const b of await page.getByRole('navigation', { name: 'Stations' }).getByRole('button').all()) {
+            await b.click();
+            if (await tile.count()) break;
+          }
+        }
+        await tile.click();
+        await page.getByTestId('main-chart').locator('canvas').first().waitFor();
+        problems.push(...(await check(page, `characteristic-${ch.id}-${theme}`)));
+      }
+      // The point details panel and, where a signal is still open, the prompt.
+      const canvas = page.getByTestId('main-chart').locator('.u-over');
+      const box = await canvas.boundingBox();
+      if (box) await page.mouse.click(box.x + box.width - 4, box.y + box.height / 2);
+      await page.getByTestId('point-details').waitFor({ timeout: 5_000 });
+      problems.push(...(await check(page, `point-details-${theme}`)));
+      const answerNow = page.getByRole('button', { name: 'Answer now' }).first();
+      if (await answerNow.count()) {
+        await answerNow.click();
+        await page.getByTestId('signal-prompt').waitFor();
+        problems.push(...(await check(page, `signal-prompt-${theme}`)));
+        await page.getByRole('button', { name: 'Answer later' }).click();
+      }
+    }
+    expect(problems).toEqual([]);
+    expect(errors).toEqual([]);
+
+    // Control: the check has teeth — an input with no label is reported.
+    await page.evaluate(() => document.body.insertAdjacentHTML('beforeend', '<input id="unlabelled-control">'));
+    expect((await axeViolations(page)).map((v) => v.id)).toContain('label');
+  });
+});

@@ -1,0 +1,65 @@
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import type { Page } from 'playwright-core';
+import { createServer } from '../../src/server/create-server';
+import { DEMO_SITE_ID } from '../../src/server/demo/demo-site';
+import { seedDemo } from '../../src/server/demo/seed-demo';
+import { issueEnrolmentCode } from '../../src/server/routes/admin-enrolment-codes';
+import type { ServerStore } from '../../src/server/store/server-store';
+import { openSqliteStore } from '../../src/server/store/sqlite-store';
+
+/** A demo site served from a temporary SQLite file and the built app, on a free loopback port. */
+export interface DemoSite {
+  readonly store: ServerStore;
+  readonly base: string;
+  newCode(): Promise<string>;
+  close(): Promise<void>;
+}
+
+export async function startDemoSite(now = new Date()): Promise<DemoSite> {
+  const dir = mkdtempSync(join(tmpdir(), 'plumbline-e2e-'));
+  const store = openSqliteStore(join(dir, 'site.sqlite'));
+  await seedDemo(store, now);
+  const app = createServer({ store, distDir: resolve('dist'), logger: false });
+  await app.listen({ host: '127.0.0.1', port: 0 });
+  const address = app.server.address();
+  const base = `http://127.0.0.1:${typeof address === 'object' && address ? address.port : 0}`;
+  return {
+    store,
+    base,
+    newCode: async () => (await issueEnrolmentCode(store, DEMO_SITE_ID, 'p-marguerite', new Date(), 60)).code,
+    close: async () => {
+      await app.close();
+    },
+  };
+}
+
+/** Counts how often each device record id appears in the server's log. */
+export async function recordsOnServer(store: ServerStore): Promise<Map<string, number>> {
+  const counts = new Map<string, number>();
+  let after = 0;
+  for (;;) {
+    const rows = await store.readLog(DEMO_SITE_ID, after, 1000);
+    if (!rows.length) break;
+    for (const r of rows) if (r.entry.kind === 'record') counts.set(r.entry.id, (counts.get(r.entry.id) ?? 0) + 1);
+    after = rows[rows.length - 1]!.serverSeq;
+  }
+  return counts;
+}
+
+/** Enrols the tablet with a fresh code and signs a demo person in. */
+export async function enrolAndSignIn(page: Page, site: DemoSite, login: string, pin: string, tabletName = 'Line tablet'): Promise<void> {
+  await page.goto(site.base);
+  await page.getByLabel('Connection code').fill(await site.newCode());
+  await page.getByLabel('Name of this tablet').fill(tabletName);
+  await page.getByRole('button', { name: 'Connect tablet' }).click();
+  await signIn(page, login, pin);
+}
+
+export async function signIn(page: Page, login: string, pin: string): Promise<void> {
+  await page.getByLabel('Login').fill(login);
+  await page.getByLabel('PIN').fill(pin);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.locator('.tile').first().waitFor({ state: 'visible', timeout: 15_000 });
+}
