@@ -4,6 +4,7 @@
  * when it is new, and a fresh enrolment code and the demo people's PINs are printed.
  */
 import { existsSync, mkdirSync } from 'node:fs';
+import { networkInterfaces } from 'node:os';
 import { dirname, resolve } from 'node:path';
 import { parseArgs } from 'node:util';
 import { createServer } from './create-server';
@@ -48,7 +49,9 @@ async function main(): Promise<void> {
   const address = app.server.address();
   const actualPort = typeof address === 'object' && address ? address.port : port;
 
-  const lines = [`Plumbline sync server listening on http://localhost:${actualPort}  (all interfaces: ${values.host}:${actualPort})`, `Database: ${dbPath}`];
+  const lines = [`Plumbline sync server listening on http://localhost:${actualPort}`];
+  if (values.host === '0.0.0.0') for (const ip of siteAddresses()) lines.push(`  on the site network:  http://${ip}:${actualPort}`);
+  lines.push(`Database: ${dbPath}`);
   if (values.demo) {
     const { code, expiresAt } = await issueEnrolmentCode(store, DEMO_SITE_ID, 'p-marguerite', new Date(), DEMO_CODE_MINUTES);
     lines.push(
@@ -71,6 +74,14 @@ async function main(): Promise<void> {
   };
   process.once('SIGINT', () => void stop());
   process.once('SIGTERM', () => void stop());
+}
+
+/** IPv4 addresses of this machine that tablets on the site network can reach. */
+function siteAddresses(): string[] {
+  return Object.values(networkInterfaces())
+    .flat()
+    .filter((a) => a !== undefined && a.family === 'IPv4' && !a.internal)
+    .map((a) => a?.address ?? '');
 }
 
 main().catch((error: unknown) => {

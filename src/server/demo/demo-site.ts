@@ -96,7 +96,7 @@ export const DEMO_CHARACTERISTICS: readonly Characteristic[] = [
     chartType: 'c',
     subgroupSize: 1,
     intervalMinutes: 60,
-    spec: {},
+    spec: { usl: 10 },
     rules: ['we1'],
     reactionPlan: [
       'Inspect the next panel under the daylight lamp.',
@@ -116,7 +116,7 @@ export const DEMO_CHARACTERISTICS: readonly Characteristic[] = [
     chartType: 'p',
     subgroupSize: 100,
     intervalMinutes: 480,
-    spec: {},
+    spec: { usl: 0.08 },
     rules: ['we1', 'we2'],
     reactionPlan: [
       'Re-test three failed parts to rule out the tester.',
