@@ -16,10 +16,15 @@ export function hasRoleAtLeast(role: Role, minimum: Role): boolean {
   return ROLE_RANK[role] >= ROLE_RANK[minimum];
 }
 
+/** "an admin", "a supervisor": the role with its article, for messages. */
+export function roleWithArticle(role: Role): string {
+  return `${/^[aeiou]/.test(role) ? 'an' : 'a'} ${role}`;
+}
+
 /** Throws 403 unless the person holds `minimum` or a higher role. */
 export function requireRole(person: Person, minimum: Role, action: string): void {
   if (!hasRoleAtLeast(person.role, minimum)) {
-    throw new HttpError(403, 'forbidden', `Only a ${minimum} or above may ${action}; ${person.name} is signed in as ${person.role}.`);
+    throw new HttpError(403, 'forbidden', `Only ${roleWithArticle(minimum)} or above may ${action}; ${person.name} is signed in as ${roleWithArticle(person.role)}.`);
   }
 }
 

@@ -1,5 +1,5 @@
 import { DeviceRecord, describeIssues, isVariableChart, type Characteristic, type Person, type Role, z } from '../schema/index';
-import { hasRoleAtLeast } from './auth';
+import { hasRoleAtLeast, roleWithArticle } from './auth';
 import type { DeviceRow, ServerStore } from './store/server-store';
 
 export type RecordCheck =
@@ -50,7 +50,7 @@ export async function checkRecord(raw: unknown, index: number, device: DeviceRow
     return { ok: false, id, reason: `Person "${personId}" is not an active person of this site.` };
   }
   if (!hasRoleAtLeast(person.body.role, minimumRole)) {
-    return { ok: false, id, reason: `Only a ${minimumRole} or above may ${action}; ${person.body.name} is ${person.body.role}.` };
+    return { ok: false, id, reason: `Only ${roleWithArticle(minimumRole)} or above may ${action}; ${person.body.name} is ${roleWithArticle(person.body.role)}.` };
   }
 
   if (record.kind === 'sample') {
