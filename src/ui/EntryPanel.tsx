@@ -31,6 +31,8 @@ export function EntryPanel({ view, actions, separator }: { view: CharacteristicV
   const [confirmTypo, setConfirmTypo] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const inputs = useRef<(HTMLInputElement | null)[]>([]);
+  /** A save is under way: a second tap on Save (gloves, a slow tablet) must not save the sample twice. */
+  const saving = useRef(false);
   useEffect(() => { setTexts(initial()); setActive(0); setConfirmTypo(null); setProblem(null); }, [ch.id]);
 
   const field = fields[active];
@@ -38,6 +40,7 @@ export function EntryPanel({ view, actions, separator }: { view: CharacteristicV
   const phase = view.analysis.phases[view.analysis.phases.length - 1];
 
   const save = async (confirmed: boolean) => {
+    if (saving.current) return;
     const bad = parsed.findIndex((p) => !p.ok);
     if (bad >= 0) {
       const p = parsed[bad]!;
@@ -66,8 +69,10 @@ export function EntryPanel({ view, actions, separator }: { view: CharacteristicV
       }
       entry = inspected !== undefined ? { count: count!, inspected } : { count: count! };
     }
+    saving.current = true;
     setBusy(true);
-    const ok = await actions.record(ch.id, { ...entry, ...(lot.trim() ? { lot: lot.trim() } : {}), ...(comment.trim() ? { comment: comment.trim() } : {}) });
+    const ok = await actions.record(ch.id, { ...entry, ...(lot.trim() ? { lot: lot.trim() } : {}), ...(comment.trim() ? { comment: comment.trim() } : {}) })
+      .finally(() => { saving.current = false; });
     setBusy(false);
     if (ok) {
       setTexts(initial());

@@ -85,6 +85,21 @@ describe('EntryPanel: variable charts', () => {
     await waitFor(() => expect(actions.record).toHaveBeenCalledWith('ch-bore', { values: [10], lot: 'L-17', comment: 'after tool change' }));
   });
 
+  it('a second tap on Save while the first save runs does not save twice', async () => {
+    const actions = fakeActions();
+    let finish!: (ok: boolean) => void;
+    actions.record.mockImplementation(() => new Promise<boolean>((r) => { finish = r; }));
+    render(<EntryPanel view={view(makeCharacteristic(), [], T0)} actions={actions} separator="," />);
+    press('1', '0', 'next');
+    expect(screen.getByRole('button', { name: 'Saving…' })).toBeTruthy();
+    press('next', 'next');
+    expect(actions.record).toHaveBeenCalledTimes(1);
+    await act(() => finish(true));
+    await waitFor(() => expect(screen.getByRole('button', { name: 'Save sample' })).toBeTruthy());
+    press('9', 'next'); // the next sample saves normally
+    expect(actions.record).toHaveBeenCalledTimes(2);
+  });
+
   it('a failed save keeps what was typed', async () => {
     const actions = fakeActions();
     actions.record.mockResolvedValueOnce(false);
