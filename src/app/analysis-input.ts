@@ -11,6 +11,11 @@ export interface ChartSeries {
   readonly phaseIds: readonly string[];
 }
 
+/** A common EWMA design: λ = 0.2 with L = 2.962 gives an in-control ARL of about 500 (Lucas & Saccucci 1990). */
+export const DEFAULT_EWMA = { lambda: 0.2, L: 2.962 } as const;
+/** The usual tabular CUSUM design: k = 0.5, h = 5 (common practice; Montgomery, CUSUM chapter). */
+export const DEFAULT_CUSUM = { k: 0.5, h: 5 } as const;
+
 /** Sort key: time taken, then id (ids are time-ordered UUIDv7, so ties keep entry order). */
 export function compareSamples(a: Sample, b: Sample): number {
   if (a.takenAt !== b.takenAt) return a.takenAt < b.takenAt ? -1 : 1;
@@ -23,6 +28,8 @@ function toSubgroup(ch: Characteristic, s: Sample): SubgroupInput {
     case 'xmr':
     case 'xbar-r':
     case 'xbar-s':
+    case 'ewma':
+    case 'cusum':
       return { values: s.values ?? [], excluded };
     case 'c':
       return { count: s.count ?? 0, excluded };
@@ -60,6 +67,8 @@ export function buildChartSeries(ch: Characteristic, phases: readonly Phase[], c
       phases: phaseInputs,
       rules: ch.rules,
       spec: ch.spec,
+      ...(ch.chartType === 'ewma' ? { ewma: ch.ewma ?? DEFAULT_EWMA } : {}),
+      ...(ch.chartType === 'cusum' ? { cusum: ch.cusum ?? DEFAULT_CUSUM } : {}),
     },
     sampleIds: samples.map((s) => s.id),
     samples,

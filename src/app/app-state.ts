@@ -46,7 +46,10 @@ export interface SignalPrompt {
   readonly signals: readonly Signal[];
 }
 
-export type Screen = { readonly name: 'board' } | { readonly name: 'characteristic'; readonly characteristicId: string };
+export type Screen =
+  | { readonly name: 'board' }
+  | { readonly name: 'overview' }
+  | { readonly name: 'characteristic'; readonly characteristicId: string };
 
 export interface AppState {
   readonly stage: 'starting' | 'enrol' | 'sign-in' | 'ready' | 'failed';

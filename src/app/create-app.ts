@@ -242,6 +242,7 @@ export function createPlumblineApp(deps: AppDeps) {
     open(screen: Screen) {
       set({ screen, error: undefined });
       if (screen.name === 'characteristic') void refreshViews([screen.characteristicId]);
+      else if (screen.name === 'overview') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else void refreshViews();
     },
 

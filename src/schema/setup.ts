@@ -13,10 +13,13 @@ export type Line = z.infer<typeof Line>;
 export const Station = z.object({ id: EntityId, lineId: EntityId, name: NonEmptyText(80) });
 export type Station = z.infer<typeof Station>;
 
-/** Chart types. Variable charts take measured values; attribute charts take counts. */
-export const ChartType = z.enum(['xmr', 'xbar-r', 'xbar-s', 'p', 'np', 'c', 'u']);
+/**
+ * Chart types. Variable charts take measured values (EWMA and CUSUM too: individuals or
+ * subgroups, for small sustained shifts); attribute charts take counts.
+ */
+export const ChartType = z.enum(['xmr', 'xbar-r', 'xbar-s', 'p', 'np', 'c', 'u', 'ewma', 'cusum']);
 export type ChartType = z.infer<typeof ChartType>;
-export const VARIABLE_CHARTS: readonly ChartType[] = ['xmr', 'xbar-r', 'xbar-s'];
+export const VARIABLE_CHARTS: readonly ChartType[] = ['xmr', 'xbar-r', 'xbar-s', 'ewma', 'cusum'];
 export const isVariableChart = (t: ChartType): boolean => VARIABLE_CHARTS.includes(t);
 
 /** Run-rule identifiers: Western Electric 1–4 ('we1'…'we4') and Nelson 1–8 ('n1'…'n8'). */
@@ -60,6 +63,10 @@ export const Characteristic = z.object({
   safetyCritical: z.boolean(),
   /** Subgroups at the start of each phase used to compute its limits (baseline), unless limits are given. */
   baselineSize: z.int().check(z.minimum(2), z.maximum(1000)),
+  /** EWMA design: weight λ (0 < λ ≤ 1) and limit width L in sigmas (e.g. λ 0.2, L 2.962: Lucas & Saccucci). */
+  ewma: z.optional(z.object({ lambda: z.number().check(z.positive(), z.maximum(1)), L: z.number().check(z.positive()) })),
+  /** Tabular CUSUM design: reference value k and decision interval h, in sigmas (e.g. k 0.5, h 4 or 5). */
+  cusum: z.optional(z.object({ k: z.number().check(z.minimum(0)), h: z.number().check(z.positive()) })),
 });
 export type Characteristic = z.infer<typeof Characteristic>;
 

@@ -2,7 +2,7 @@ import type { AppActions, AppState } from '../app/app-state';
 import { StateChips } from './state-chips';
 
 const CHART_NAMES: Record<string, string> = {
-  xmr: 'Individuals & moving range', 'xbar-r': 'X̄ & R', 'xbar-s': 'X̄ & s', p: 'p (proportion)', np: 'np (count)', c: 'c (defects)', u: 'u (defects per unit)',
+  xmr: 'Individuals & moving range', 'xbar-r': 'X̄ & R', 'xbar-s': 'X̄ & s', p: 'p (proportion)', np: 'np (count)', c: 'c (defects)', u: 'u (defects per unit)', ewma: 'EWMA', cusum: 'CUSUM',
 };
 
 /** The station's characteristics with their state: what needs doing first comes first. */
@@ -33,7 +33,10 @@ export function StationBoard({ state, actions }: { state: AppState; actions: App
           </div>
         ))}
       </nav>
-      <h1>Characteristics at this station</h1>
+      <div class="row" style="justify-content:space-between">
+        <h1>Characteristics at this station</h1>
+        <button type="button" class="btn small" onClick={() => actions.open({ name: 'overview' })} data-testid="open-overview">Site overview</button>
+      </div>
       {sorted.length === 0 ? <p class="hint">No characteristics are set up for this station yet.</p> : null}
       <div class="tiles">
         {sorted.map((c) => {

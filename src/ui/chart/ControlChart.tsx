@@ -34,6 +34,8 @@ export interface ControlChartProps {
   readonly showZones: boolean;
   /** How many of the latest points to show; the rest is reached with "whole history". */
   readonly window: number;
+  /** The last point shown (1-based); null follows the newest point. */
+  readonly end?: number | null;
   readonly testId?: string;
   /** Called with the point's index when a point is tapped. */
   readonly onPick?: (index: number) => void;
@@ -194,9 +196,10 @@ export function ControlChart(props: ControlChartProps) {
     if (!u) return;
     u.setData(buildData(props), false);
     const n = props.points.length;
-    const from = Math.max(1, n - props.window + 1);
-    u.setScale('x', { min: from - 0.5, max: Math.max(n, from + 1) + 0.5 });
-  }, [props.points, props.flags, props.window, props.spec, props.showZones, props.phaseStarts]);
+    const to = Math.min(n, props.end ?? n);
+    const from = Math.max(1, to - props.window + 1);
+    u.setScale('x', { min: from - 0.5, max: Math.max(to, from + 1) + 0.5 });
+  }, [props.points, props.flags, props.window, props.end, props.spec, props.showZones, props.phaseStarts]);
 
   useEffect(() => plot.current?.redraw(false), [props.selected]);
 
