@@ -282,9 +282,12 @@ export function createPlumblineApp(deps: AppDeps) {
     async answer(prompt, answer: AnswerInput) {
       const view = state.views[prompt.characteristicId];
       if (!view || !identity || !state.person) return false;
+      // The views may have been rebuilt since the prompt opened (a pull brought an earlier sample), which
+      // shifts point indices: take the signals as they stand now at the same sample.
+      const fired = view.groups.find((g) => g.sampleId === prompt.sampleId)?.signals ?? prompt.signals;
       const response: Response = {
         kind: 'response', id: deps.newId(), characteristicId: prompt.characteristicId, sampleId: prompt.sampleId,
-        signals: snapshotSignals(prompt.signals, view.analysis, view.series),
+        signals: snapshotSignals(fired, view.analysis, view.series),
         whatHappened: answer.whatHappened, causeCategory: answer.causeCategory, action: answer.action,
         ...(answer.cause ? { cause: answer.cause } : {}),
         respondedBy: state.person.id, respondedAt: new Date(deps.now()).toISOString(), deviceId: identity.deviceId,

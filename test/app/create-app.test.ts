@@ -341,6 +341,25 @@ describe('answer, postpone, acknowledge', () => {
     expect(s.views['ch-len']!.groups[0]).toMatchObject({ sampleId: prompt.sampleId, state: 'answered' });
   });
 
+  it('answer() snapshots the right samples even when an earlier sample arrived after the prompt opened', async () => {
+    const { t, prompt } = await withSignal();
+    // Another tablet's sample, taken before all of ours, arrives (as a pull stores it): every index shifts by one.
+    await saveDeviceRecord(t.db, {
+      kind: 'sample', id: createRecordIdGenerator(() => t.clock.t - 30 * HOUR)(), characteristicId: 'ch-len',
+      takenAt: new Date(t.clock.t - 30 * HOUR).toISOString(), recordedBy: 'p-op', deviceId: 'dev-other', values: [10],
+    });
+    t.app.actions.open({ name: 'board' });
+    await t.settle();
+    const view = t.app.getState().views['ch-len']!;
+    expect(view.series.sampleIds.indexOf(prompt.sampleId)).toBe(21);
+    expect(await t.app.actions.answer(prompt, { whatHappened: 'Chip on the insert', causeCategory: 'Machine', action: 'Stop and call the setter.' })).toBe(true);
+    const [response] = await getResponsesForCharacteristic(t.db, 'ch-len');
+    const main = response!.signals.find((x) => x.sampleIds.length === 1)!;
+    expect(main.sampleIds).toEqual([prompt.sampleId]);
+    expect(main.ucl).toBe(view.analysis.points[21]!.ucl);
+    for (const snap of response!.signals) expect(snap.sampleIds[snap.sampleIds.length - 1]).toBe(prompt.sampleId);
+  });
+
   it('postpone() closes the prompt but the signal stays unanswered; it can be reopened', async () => {
     const { t, prompt } = await withSignal();
     t.app.actions.postpone();
