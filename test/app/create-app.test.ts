@@ -4,11 +4,13 @@
  * inject). The server team's fixtures give the site, people and PINs (test/server/fixtures.ts).
  */
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import type { Sample } from '../../src/schema';
 import { createPlumblineApp, type PlumblineApp, type SmallStorage, type SyncPort } from '../../src/app/create-app';
 import {
   getAcksForCharacteristic,
   getCurrentSamplesForCharacteristic,
   getDeviceIdentity,
+  getDeviceRecord,
   getOutboxRow,
   getResponsesForCharacteristic,
   getSignedInPerson,
@@ -20,7 +22,7 @@ import { createRecordIdGenerator } from '../../src/sync/ids';
 import { verifyOffline } from '../../src/sync/offline-verifier';
 import { createSyncEngine } from '../../src/sync/sync-engine';
 import { issueEnrolmentCode } from '../../src/server/routes/admin-enrolment-codes';
-import { SITE, startTestServer, type TestServer } from '../server/fixtures';
+import { api, enrolDevice, SITE, startTestServer, testUuid, type TestServer } from '../server/fixtures';
 import { closeAll, freshDb } from '../store/helpers';
 import { BASELINE } from './helpers';
 
@@ -131,7 +133,10 @@ async function signedIn(login = 'odile', pin = '1234'): Promise<Tablet> {
   return t;
 }
 
-/** Twenty in-control lengths saved as if recorded on this tablet over the last 20 hours. */
+/**
+ * Twenty in-control lengths saved as if recorded on this tablet over the last 20 hours, then a sync run
+ * (after which the app re-reads what it shows). Records only reach IndexedDB through the app or a sync.
+ */
 async function seedBaseline(t: Tablet): Promise<string[]> {
   const deviceId = t.app.getState().device!.deviceId;
   const ids = createRecordIdGenerator(() => t.clock.t - 21 * HOUR);
@@ -144,17 +149,31 @@ async function seedBaseline(t: Tablet): Promise<string[]> {
     });
     saved.push(id);
   }
+  await t.app.actions.syncNow();
+  await t.settle();
   return saved;
 }
 
-/** Signs in, seeds the baseline and records a length far above the limits. */
+/** Seeds the baseline, signs in and records a length far above the limits. */
 async function withSignal(login = 'odile', pin = '1234') {
-  const t = await signedIn(login, pin);
+  const t = await enrolled();
   const baseline = await seedBaseline(t);
+  expect(await t.app.actions.signIn(login, pin)).toBe(true);
   expect(await t.app.actions.record('ch-len', { values: [11] })).toBe(true);
   const prompt = t.app.getState().prompt!;
   expect(prompt).toBeDefined();
   return { t, baseline, prompt };
+}
+
+/** Another tablet pushes a sample to the server; this tablet then syncs and shows it. */
+async function fromAnotherTablet(t: Tablet, sample: Partial<Sample> & Pick<Sample, 'characteristicId' | 'takenAt'>): Promise<void> {
+  const other = await enrolDevice(server, 'Tablet 2');
+  const record: Sample = { kind: 'sample', id: createRecordIdGenerator(() => Date.parse(sample.takenAt))(), recordedBy: 'p-op', deviceId: other.deviceId, ...sample };
+  const res = await api(server, 'POST', '/api/v1/sync/push', { device: other.deviceToken, body: { batchId: testUuid(), records: [record] } });
+  expect(res.json()).toMatchObject({ results: [{ id: record.id, status: 'stored' }] });
+  await t.app.actions.syncNow();
+  await t.settle();
+  expect(await getDeviceRecord(t.db, record.id)).toBeDefined();
 }
 
 describe('start and enrolment', () => {
@@ -284,8 +303,9 @@ describe('record', () => {
   });
 
   it('an in-control value after the baseline does not prompt', async () => {
-    const t = await signedIn();
+    const t = await enrolled();
     await seedBaseline(t);
+    expect(await t.app.actions.signIn('odile', '1234')).toBe(true);
     expect(await t.app.actions.record('ch-len', { values: [10.01] })).toBe(true);
     expect(t.app.getState().prompt).toBeUndefined();
   });
@@ -343,13 +363,9 @@ describe('answer, postpone, acknowledge', () => {
 
   it('answer() snapshots the right samples even when an earlier sample arrived after the prompt opened', async () => {
     const { t, prompt } = await withSignal();
-    // Another tablet's sample, taken before all of ours, arrives (as a pull stores it): every index shifts by one.
-    await saveDeviceRecord(t.db, {
-      kind: 'sample', id: createRecordIdGenerator(() => t.clock.t - 30 * HOUR)(), characteristicId: 'ch-len',
-      takenAt: new Date(t.clock.t - 30 * HOUR).toISOString(), recordedBy: 'p-op', deviceId: 'dev-other', values: [10],
-    });
-    t.app.actions.open({ name: 'board' });
+    // Another tablet's sample, taken before all of ours, comes down with a sync: every index shifts by one.
     await t.settle();
+    await fromAnotherTablet(t, { characteristicId: 'ch-len', takenAt: new Date(t.clock.t - 30 * HOUR).toISOString(), values: [10] });
     const view = t.app.getState().views['ch-len']!;
     expect(view.series.sampleIds.indexOf(prompt.sampleId)).toBe(21);
     expect(await t.app.actions.answer(prompt, { whatHappened: 'Chip on the insert', causeCategory: 'Machine', action: 'Stop and call the setter.' })).toBe(true);
@@ -418,13 +434,10 @@ describe('records the engine cannot chart', () => {
 
   it('a stored sample the engine refuses (e.g. from another tablet) empties that chart with a warning; the rest keeps working', async () => {
     const t = await signedIn();
-    // Valid for the schema, impossible for a p chart: 150 defectives out of 100 inspected.
-    await saveDeviceRecord(t.db, {
-      kind: 'sample', id: createRecordIdGenerator(() => t.clock.t - HOUR)(), characteristicId: 'ch-def',
-      takenAt: new Date(t.clock.t - HOUR).toISOString(), recordedBy: 'p-op', deviceId: 'dev-other', count: 150, inspected: 100,
-    });
-    await expect(t.app.actions.record('ch-len', { values: [10] })).resolves.toBe(true);
-    t.app.actions.open({ name: 'board' });
+    await t.settle();
+    // Valid for the schema, and the server takes it, but impossible for a p chart: 150 defectives out of 100 inspected.
+    await fromAnotherTablet(t, { characteristicId: 'ch-def', takenAt: new Date(t.clock.t - HOUR).toISOString(), count: 150, inspected: 100 });
+    expect(await t.app.actions.record('ch-len', { values: [10] })).toBe(true);
     await t.settle();
     const s = t.app.getState();
     expect(s.views['ch-len']!.analysis.points).toHaveLength(1);
