@@ -111,12 +111,16 @@ export class Evaluator {
 
   /** Adds many subgroups, re-estimating each touched baseline once (a batch costs O(n)). Returns as append(). */
   appendMany(subgroups: readonly SubgroupInput[]): number {
-    return this.appendSegments(subgroups.length, (stats, j, phaseStart) => stats.push(subgroups[j]!, phaseStart));
+    const first = this.stats.length;
+    return this.appendSegments(subgroups.length, (stats, j, phaseStart, end) => {
+      for (let k = j; k < end - first; k++) stats.push(subgroups[k]!, phaseStart);
+    });
   }
 
   /** Adds one value per subgroup from a plain or typed array (individuals, EWMA, CUSUM). Returns as append(). */
   appendValues(values: ArrayLike<number>): number {
-    return this.appendSegments(values.length, (stats, j, phaseStart) => stats.pushValue(values[j]!, phaseStart));
+    const first = this.stats.length;
+    return this.appendSegments(values.length, (stats, j, phaseStart, end) => stats.pushValues(values, j, end - first, phaseStart));
   }
 
   /**
@@ -143,8 +147,9 @@ export class Evaluator {
     });
   }
 
-  // Pushes `count` items phase by phase, re-estimates each baseline the new items fall in, evaluates once.
-  private appendSegments(count: number, pushOne: (stats: SubgroupStats, j: number, phaseStart: number) => void): number {
+  // Pushes `count` items phase by phase (pushSegment adds items j.. up to absolute index `end`),
+  // re-estimates each baseline the new items fall in, evaluates once.
+  private appendSegments(count: number, pushSegment: (stats: SubgroupStats, j: number, phaseStart: number, end: number) => void): number {
     const first = this.stats.length;
     const total = first + count;
     this.stats.reserve(total);
@@ -155,8 +160,7 @@ export class Evaluator {
       const state = this.phaseFor(i);
       const plan = state.plan;
       const end = Math.min(plan.end, total);
-      const stats = this.stats;
-      for (let k = i; k < end; k++) pushOne(stats, k - first, plan.start);
+      pushSegment(this.stats, i - first, plan.start, end);
       if (!plan.input.given && plan.baselineStart < end && plan.baselineEnd > i) {
         this.estimate(state);
         if (plan.start < from) from = plan.start;
@@ -196,6 +200,21 @@ export class Evaluator {
     const smoother = this.smoother;
     const companion = this.hasCompanion && this.companionRule !== null;
     const { value: values, size: sizes, spread: spreads } = this.stats;
+    if (kind === 'xmr') {
+      // One value per subgroup: the limits are the same for the whole segment.
+      if (params !== this.limParams || this.limSize !== 1) {
+        computeLimits(kind, params, 1, lim);
+        this.limParams = params;
+        this.limSize = 1;
+      }
+      rules.pushRun(values, from, to, lim.centre, lim.sigma, sigs);
+      if (this.companionRule) {
+        const ucl = lim.cUcl;
+        for (let i = from; i < to; i++) if (spreads[i]! > ucl) this.companionSignal(i, 'above');
+        sortTail(sigs, from);
+      }
+      return;
+    }
     for (let i = from; i < to; i++) {
       const size = sizes[i]!;
       if (params !== this.limParams || size !== this.limSize) {
@@ -270,6 +289,16 @@ export class Evaluator {
 }
 
 const RULES = new Set<string>(['we1', 'we2', 'we3', 'we4', 'n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8']);
+
+// Signals at index ≥ from were pushed by two passes over the same points; order them by index
+// (stable, so rule order within a point is kept: run rules first, then the companion chart).
+function sortTail(sigs: Signal[], from: number): void {
+  let start = sigs.length;
+  while (start > 0 && sigs[start - 1]!.index >= from) start--;
+  if (sigs.length - start < 2) return;
+  const tail = sigs.slice(start).sort((a, b) => a.index - b.index);
+  for (let k = 0; k < tail.length; k++) sigs[start + k] = tail[k]!;
+}
 
 function fin(x: number): number | null {
   return Number.isFinite(x) ? x : null;

@@ -5,7 +5,7 @@
  * Building 100,000 objects costs far more than the analysis itself.
  */
 import type { PhaseParams } from './estimate';
-import { computeLimits, emptyLimits } from './limits';
+import { computeLimits, emptyLimits, type LimitValues } from './limits';
 import type { SmoothedColumns } from './smoothers';
 import type { SubgroupStats } from './subgroup-stats';
 import type { Analysis, Capability, ChartKind, ChartPoint, PhaseResult, Signal } from './types';
@@ -45,32 +45,39 @@ function toPoints(r: ResultParts): ChartPoint[] {
   const { chart: kind, stats, length } = r;
   const out = new Array<ChartPoint>(length);
   const companion = kind === 'xmr' || kind === 'xbar-r' || kind === 'xbar-s';
+  const hasReasons = stats.reason.size > 0;
   const lim = emptyLimits();
   r.phases.forEach((ph, p) => {
     const params = r.params[p] ?? null;
     let size = NaN;
     for (let i = ph.start; i < Math.min(ph.end, length); i++) {
-      const spread = stats.spread[i]!;
-      const observed = stats.value[i]!;
       let point: ChartPoint;
       if (!params) {
-        point = { index: i, value: observed, phase: p, excluded: stats.excluded[i] === 1, centre: null, ucl: null, lcl: null, sigma: null };
-        if (companion) point = { ...point, companion: { value: fin(spread), centre: null, ucl: null, lcl: null } };
+        point = nullPoint(r, i, p, companion);
       } else {
         if (stats.size[i] !== size) {
           size = stats.size[i]!;
           computeLimits(kind, params, size, lim);
         }
-        point = pointWithLimits(r, i, p, params, lim, companion);
+        point = pointWithLimits(r, i, p, lim, companion);
       }
-      const reason = stats.reason.get(i);
+      const reason = hasReasons ? stats.reason.get(i) : undefined;
       out[i] = reason === undefined ? point : { ...point, exclusionReason: reason };
     }
   });
   return out;
 }
 
-function pointWithLimits(r: ResultParts, i: number, phase: number, _params: PhaseParams, lim: ReturnType<typeof emptyLimits>, companion: boolean): ChartPoint {
+function nullPoint(r: ResultParts, i: number, phase: number, companion: boolean): ChartPoint {
+  const s = r.stats;
+  const excluded = s.excluded[i] === 1;
+  const value = s.value[i]!;
+  return companion
+    ? { index: i, value, phase, excluded, centre: null, ucl: null, lcl: null, sigma: null, companion: { value: fin(s.spread[i]), centre: null, ucl: null, lcl: null } }
+    : { index: i, value, phase, excluded, centre: null, ucl: null, lcl: null, sigma: null };
+}
+
+function pointWithLimits(r: ResultParts, i: number, phase: number, lim: LimitValues, companion: boolean): ChartPoint {
   const s = r.stats;
   const excluded = s.excluded[i] === 1;
   const observed = s.value[i]!;
@@ -82,7 +89,9 @@ function pointWithLimits(r: ResultParts, i: number, phase: number, _params: Phas
   if (r.chart === 'cusum') {
     return { index: i, value: observed, phase, excluded, centre: lim.centre, ucl: null, lcl: null, sigma: lim.sigma, cusum: { upper: r.smoothed!.a[i]!, lower: r.smoothed!.b[i]!, limit: r.cusumH * lim.sigma } };
   }
-  const base = { index: i, value: observed, phase, excluded, centre: lim.centre, ucl: lim.ucl, lcl: lim.lcl, sigma: lim.sigma };
-  if (!companion) return base;
-  return { ...base, companion: { value: fin(s.spread[i]), centre: fin(lim.cCentre), ucl: fin(lim.cUcl), lcl: fin(lim.cLcl) } };
+  if (!companion) return { index: i, value: observed, phase, excluded, centre: lim.centre, ucl: lim.ucl, lcl: lim.lcl, sigma: lim.sigma };
+  return {
+    index: i, value: observed, phase, excluded, centre: lim.centre, ucl: lim.ucl, lcl: lim.lcl, sigma: lim.sigma,
+    companion: { value: fin(s.spread[i]), centre: fin(lim.cCentre), ucl: fin(lim.cUcl), lcl: fin(lim.cLcl) },
+  };
 }

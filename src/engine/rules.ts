@@ -5,106 +5,208 @@
  * rules 2/3 (Nelson 5/6) count one side at a time and need the newest point in the pattern;
  * a point exactly on the centre line breaks a same-side run; ties break a trend or an alternation.
  * A rule fires at every point whose window ending there satisfies it (no reset after a signal).
+ * Windows before the first point of a phase count as empty (zero-state).
  */
 import { explainRule } from './rule-text';
 import type { RuleCode, Signal } from './types';
 
-const MASK = 15; // ring of 16 standardised values: more than the longest counting window (5)
-
 export const ALL_RULES: readonly RuleCode[] = ['we1', 'we2', 'we3', 'we4', 'n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8'];
 
+// Number of set bits in a 5-bit window mask.
+const BITS = Array.from({ length: 32 }, (_, m) => (m & 1) + ((m >> 1) & 1) + ((m >> 2) & 1) + ((m >> 3) & 1) + ((m >> 4) & 1));
+
 export class RuleEvaluator {
-  private readonly on: Record<RuleCode, boolean>;
-  private readonly zs = new Float64Array(MASK + 1);
-  private count = 0; // points seen since reset
+  private readonly we1: boolean;
+  private readonly n1: boolean;
+  private readonly we2: boolean;
+  private readonly n5: boolean;
+  private readonly we3: boolean;
+  private readonly n6: boolean;
+  private readonly we4: boolean;
+  private readonly n2: boolean;
+  private readonly n3: boolean;
+  private readonly n4: boolean;
+  private readonly n7: boolean;
+  private readonly n8: boolean;
+  private started = false;
   private runAbove = 0;
   private runBelow = 0;
   private rises = 0;
   private falls = 0;
   private alternations = 0;
   private lastDiff = 0;
-  private lastValue = 0;
+  private lastValue = NaN; // a double from the start keeps the field unboxed
   private inC = 0;
   private outC = 0;
   private lastOutAbove = -1; // index of the latest point beyond +1σ
   private lastOutBelow = -1;
+  // Bit k set: the point k places back was beyond the line (bit 0 is the newest point).
+  private beyond2Up = 0;
+  private beyond2Down = 0;
+  private beyond1Up = 0;
+  private beyond1Down = 0;
 
   constructor(rules: readonly RuleCode[]) {
-    this.on = { we1: false, we2: false, we3: false, we4: false, n1: false, n2: false, n3: false, n4: false, n5: false, n6: false, n7: false, n8: false };
-    for (const r of rules) this.on[r] = true;
+    const on = new Set(rules);
+    this.we1 = on.has('we1');
+    this.n1 = on.has('n1');
+    this.we2 = on.has('we2');
+    this.n5 = on.has('n5');
+    this.we3 = on.has('we3');
+    this.n6 = on.has('n6');
+    this.we4 = on.has('we4');
+    this.n2 = on.has('n2');
+    this.n3 = on.has('n3');
+    this.n4 = on.has('n4');
+    this.n7 = on.has('n7');
+    this.n8 = on.has('n8');
   }
 
   /** Forget the history (start of a phase). */
   reset(): void {
-    this.count = 0;
+    this.started = false;
     this.runAbove = this.runBelow = this.rises = this.falls = this.alternations = 0;
     this.lastDiff = 0;
     this.inC = this.outC = 0;
     this.lastOutAbove = this.lastOutBelow = -1;
+    this.beyond2Up = this.beyond2Down = this.beyond1Up = this.beyond1Down = 0;
   }
+
+  /** Feeds points [from, to) of `values` standardised with one centre and sigma. */
+  pushRun(values: Float64Array, from: number, to: number, centre: number, sigma: number, out: Signal[]): void {
+    this.scan(values, null, 0, from, to, centre, sigma, out);
+  }
+
+  private readonly oneValue = new Float64Array(1);
+  private readonly oneZ = new Float64Array(1);
 
   /** Feed point `index` (plotted `value`, standardised `z`); pushes any signals onto `out`. */
   push(index: number, value: number, z: number, out: Signal[]): void {
-    const on = this.on;
-    const c = this.count;
-    this.zs[index & MASK] = z;
+    this.oneValue[0] = value;
+    this.oneZ[0] = z;
+    this.scan(this.oneValue, this.oneZ, index, index, index + 1, 0, 1, out);
+  }
 
-    // Counters first, so each rule below reads the state including this point.
-    this.runAbove = z > 0 ? this.runAbove + 1 : 0;
-    this.runBelow = z < 0 ? this.runBelow + 1 : 0;
-    if (c > 0) {
-      const d = value > this.lastValue ? 1 : value < this.lastValue ? -1 : 0;
-      this.rises = d > 0 ? this.rises + 1 : 0;
-      this.falls = d < 0 ? this.falls + 1 : 0;
-      this.alternations = d !== 0 && this.lastDiff !== 0 && d !== this.lastDiff ? this.alternations + 1 : d !== 0 ? 1 : 0;
-      this.lastDiff = d;
+  // The hot loop, on local copies of the state. Point i reads values[i − offset] and, when given,
+  // zs[i − offset]; otherwise z = (value − centre)/sigma.
+  private scan(values: Float64Array, zs: Float64Array | null, offset: number, from: number, to: number, centre: number, sigma: number, out: Signal[]): void {
+    let started = this.started;
+    let runAbove = this.runAbove;
+    let runBelow = this.runBelow;
+    let rises = this.rises;
+    let falls = this.falls;
+    let alternations = this.alternations;
+    let lastDiff = this.lastDiff;
+    let lastValue = this.lastValue;
+    let inC = this.inC;
+    let outC = this.outC;
+    let b2u = this.beyond2Up;
+    let b2d = this.beyond2Down;
+    let b1u = this.beyond1Up;
+    let b1d = this.beyond1Down;
+    // Thresholds of the selected rules (Infinity: not selected).
+    const runLength = this.we4 ? 8 : this.n2 ? 9 : Infinity;
+    const trendLength = this.n3 ? 5 : Infinity;
+    const alternationLength = this.n4 ? 13 : Infinity;
+    const insideLength = this.n7 ? 15 : Infinity;
+    const outsideLength = this.n8 ? 8 : Infinity;
+    const limitRule = this.we1 || this.n1;
+    const twoOfThree = this.we2 || this.n5;
+    const fourOfFive = this.we3 || this.n6;
+    let lastOutAbove = this.lastOutAbove;
+    let lastOutBelow = this.lastOutBelow;
+    for (let i = from; i < to; i++) {
+      const value = values[i - offset]!;
+      const z = zs === null ? (value - centre) / sigma : zs[i - offset]!;
+      runAbove = z > 0 ? runAbove + 1 : 0;
+      runBelow = z < 0 ? runBelow + 1 : 0;
+      if (started) {
+        const d = value > lastValue ? 1 : value < lastValue ? -1 : 0;
+        rises = d > 0 ? rises + 1 : 0;
+        falls = d < 0 ? falls + 1 : 0;
+        alternations = d === 0 ? 0 : d === -lastDiff ? alternations + 1 : 1; // a tie breaks, a turn extends
+        lastDiff = d;
+      }
+      started = true;
+      lastValue = value;
+      b2u = ((b2u << 1) | (z > 2 ? 1 : 0)) & 7;
+      b2d = ((b2d << 1) | (z < -2 ? 1 : 0)) & 7;
+      b1u = ((b1u << 1) | (z > 1 ? 1 : 0)) & 31;
+      b1d = ((b1d << 1) | (z < -1 ? 1 : 0)) & 31;
+      const outside = (b1u | b1d) & 1;
+      inC = outside ? 0 : inC + 1;
+      outC = outside ? outC + 1 : 0;
+      if (b1u & 1) lastOutAbove = i;
+      else if (b1d & 1) lastOutBelow = i;
+      // Could a selected rule fire here? (Cheap tests on locals; fire() makes the signals.)
+      if (
+        runAbove >= runLength || runBelow >= runLength || rises >= trendLength || falls >= trendLength || alternations >= alternationLength || inC >= insideLength || outC >= outsideLength ||
+        (limitRule && (z > 3 || z < -3)) ||
+        (twoOfThree && (((b2u & 1) !== 0 && BITS[b2u]! >= 2) || ((b2d & 1) !== 0 && BITS[b2d]! >= 2))) ||
+        (fourOfFive && (((b1u & 1) !== 0 && BITS[b1u]! >= 4) || ((b1d & 1) !== 0 && BITS[b1d]! >= 4)))
+      ) {
+        this.runAbove = runAbove;
+        this.runBelow = runBelow;
+        this.rises = rises;
+        this.falls = falls;
+        this.alternations = alternations;
+        this.inC = inC;
+        this.outC = outC;
+        this.lastOutAbove = lastOutAbove;
+        this.lastOutBelow = lastOutBelow;
+        this.fire(i, z, b2u, b2d, b1u, b1d, out);
+      }
     }
-    this.lastValue = value;
-    const az = z < 0 ? -z : z;
-    this.inC = az <= 1 ? this.inC + 1 : 0;
-    this.outC = az > 1 ? this.outC + 1 : 0;
-    if (z > 1) this.lastOutAbove = index;
-    else if (z < -1) this.lastOutBelow = index;
-    this.count = c + 1;
+    this.started = started;
+    this.runAbove = runAbove;
+    this.runBelow = runBelow;
+    this.rises = rises;
+    this.falls = falls;
+    this.alternations = alternations;
+    this.lastDiff = lastDiff;
+    this.lastValue = lastValue;
+    this.inC = inC;
+    this.outC = outC;
+    this.beyond2Up = b2u;
+    this.beyond2Down = b2d;
+    this.beyond1Up = b1u;
+    this.beyond1Down = b1d;
+    this.lastOutAbove = lastOutAbove;
+    this.lastOutBelow = lastOutBelow;
+  }
 
+  // The rare path: some rule may fire at this point.
+  private fire(index: number, z: number, b2u: number, b2d: number, b1u: number, b1d: number, out: Signal[]): void {
     if (z > 3 || z < -3) {
       const side = z > 0 ? 'above' : 'below';
-      if (on.we1) out.push(signal('we1', index, [index], side));
-      if (on.n1) out.push(signal('n1', index, [index], side));
+      if (this.we1) out.push(signal('we1', index, [index], side));
+      if (this.n1) out.push(signal('n1', index, [index], side));
     }
-    if ((on.we2 || on.n5) && az > 2) this.countRule(index, z, 2, 3, 2, on.we2, on.n5, 'we2', 'n5', out);
-    if ((on.we3 || on.n6) && az > 1) this.countRule(index, z, 1, 5, 4, on.we3, on.n6, 'we3', 'n6', out);
-    if (on.we4) this.runRule('we4', index, 8, out);
-    if (on.n2) this.runRule('n2', index, 9, out);
-    if (on.n3) {
+    if ((this.we2 || this.n5) && (b2u & 1 ? BITS[b2u]! >= 2 : b2d & 1 ? BITS[b2d]! >= 2 : false)) {
+      this.windowSignals(index, b2u & 1 ? b2u : b2d, 3, b2u & 1 ? 'above' : 'below', this.we2, this.n5, 'we2', 'n5', out);
+    }
+    if ((this.we3 || this.n6) && (b1u & 1 ? BITS[b1u]! >= 4 : b1d & 1 ? BITS[b1d]! >= 4 : false)) {
+      this.windowSignals(index, b1u & 1 ? b1u : b1d, 5, b1u & 1 ? 'above' : 'below', this.we3, this.n6, 'we3', 'n6', out);
+    }
+    if (this.we4) this.runRule('we4', index, 8, out);
+    if (this.n2) this.runRule('n2', index, 9, out);
+    if (this.n3) {
       if (this.rises >= 5) out.push(signal('n3', index, run(index, 6), 'above'));
       else if (this.falls >= 5) out.push(signal('n3', index, run(index, 6), 'below'));
     }
-    if (on.n4 && this.alternations >= 13) out.push(signal('n4', index, run(index, 14), undefined));
-    if (on.n7 && this.inC >= 15) out.push(signal('n7', index, run(index, 15), undefined));
-    if (on.n8 && this.outC >= 8 && this.lastOutAbove > index - 8 && this.lastOutBelow > index - 8) {
+    if (this.n4 && this.alternations >= 13) out.push(signal('n4', index, run(index, 14), undefined));
+    if (this.n7 && this.inC >= 15) out.push(signal('n7', index, run(index, 15), undefined));
+    if (this.n8 && this.outC >= 8 && this.lastOutAbove > index - 8 && this.lastOutBelow > index - 8) {
       out.push(signal('n8', index, run(index, 8), undefined));
     }
   }
 
-  // "m of w points beyond `limit` sigma on the newest point's side", newest point included.
-  private countRule(index: number, z: number, limit: number, w: number, m: number, a: boolean, b: boolean, ra: RuleCode, rb: RuleCode, out: Signal[]): void {
-    const span = Math.min(w, this.count);
-    const up = z > 0;
-    let hits = 0;
-    for (let k = 0; k < span; k++) {
-      const zk = this.zs[(index - k) & MASK]!;
-      if (up ? zk > limit : zk < -limit) hits++;
-    }
-    if (hits < m) return;
+  // "m of w beyond a line on the newest point's side": list the points from the window mask.
+  private windowSignals(index: number, mask: number, w: number, side: 'above' | 'below', a: boolean, b: boolean, ra: RuleCode, rb: RuleCode, out: Signal[]): void {
     const points: number[] = [];
-    for (let k = span - 1; k >= 0; k--) {
-      const zk = this.zs[(index - k) & MASK]!;
-      if (up ? zk > limit : zk < -limit) points.push(index - k);
-    }
-    const side = up ? 'above' : 'below';
+    for (let k = w - 1; k >= 0; k--) if ((mask >> k) & 1) points.push(index - k);
     if (a) out.push(signal(ra, index, points, side));
-    if (b) out.push(signal(rb, index, points.slice(), side));
+    if (b) out.push(signal(rb, index, a ? points.slice() : points, side));
   }
 
   private runRule(rule: RuleCode, index: number, length: number, out: Signal[]): void {

@@ -94,6 +94,29 @@ export class SubgroupStats {
     this.length = i + 1;
   }
 
+  /** pushValue for values[from..to), in one loop. */
+  pushValues(values: ArrayLike<number>, from: number, to: number, phaseStart: number): void {
+    if (this.isAttribute) throw new EngineInputError(`a ${this.kind} chart needs counts, not measured values`);
+    const first = this.length;
+    this.reserve(first + to - from);
+    const v = this.value;
+    const sp = this.spread;
+    const mr = this.usesMovingRange;
+    let prev = first > 0 ? v[first - 1]! : NaN;
+    for (let j = from, i = first; j < to; j++, i++) {
+      const x = values[j]!;
+      if (!Number.isFinite(x)) throw new EngineInputError(`subgroup ${i}: value ${String(x)} is not a finite number`);
+      v[i] = x;
+      sp[i] = mr && i > phaseStart ? Math.abs(x - prev) : NaN;
+      prev = x;
+    }
+    const end = first + to - from;
+    this.size.fill(1, first, end);
+    this.count.fill(NaN, first, end);
+    this.excluded.fill(0, first, end);
+    this.length = end;
+  }
+
   private lastSpread = NaN;
 
   // Mean of a subgroup of 2 or more values; leaves R or s (n − 1 divisor) in lastSpread.

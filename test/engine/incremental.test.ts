@@ -55,3 +55,20 @@ describe('Evaluator (incremental)', () => {
     expect(ev.analysis().points).toHaveLength(2);
   });
 });
+
+describe('analyze() with the individuals form', () => {
+  it('gives the same result as one-value subgroups', () => {
+    const xs = [10.2, 9.8, 10.1, 10.4, 9.7, 10.0, 12.9, 10.1, 9.9, 10.3, 10.2, 10.1, 10.0, 10.2, 10.4, 10.3, 10.5, 10.2, 10.6];
+    const phases = [{ start: 0, baselineCount: 10 }, { start: 12 }];
+    const a = analyze({ chart: 'xmr', individuals: Float64Array.from(xs), phases, rules: ['n1', 'n2', 'n3', 'n5', 'n6'] });
+    const b = analyze({ chart: 'xmr', subgroups: xs.map((x) => ({ values: [x] })), phases, rules: ['n1', 'n2', 'n3', 'n5', 'n6'] });
+    expect(a).toEqual(b);
+    expect(JSON.parse(JSON.stringify(a))).toEqual(JSON.parse(JSON.stringify(b)));
+  });
+
+  it('rejects both forms at once, and values that are not finite', () => {
+    expect(() => analyze({ chart: 'xmr', individuals: [1], subgroups: [] })).toThrow(/either subgroups or individuals/);
+    expect(() => analyze({ chart: 'xmr', individuals: [1, Number.POSITIVE_INFINITY] })).toThrow(/subgroup 1: value Infinity is not a finite number/);
+    expect(() => analyze({ chart: 'p', individuals: [1] })).toThrow(/needs counts/);
+  });
+});
