@@ -5,7 +5,7 @@
  * that falls inside a baseline recomputes the limits and re-evaluates that phase from its start
  * (cost bounded by the span of the baseline). Rule state restarts at each phase.
  */
-import { estimatePhase, isAttributeChart, type PhaseParams } from './estimate';
+import { defaultSigmaMethod, estimatePhase, isAttributeChart, type PhaseParams } from './estimate';
 import { computeLimits, emptyLimits } from './limits';
 import { planPhases, type PhasePlan } from './phase-plan';
 import { makeAnalysis } from './result';
@@ -24,7 +24,7 @@ export const DEFAULT_RULES: readonly RuleCode[] = ['we1', 'we2', 'we3', 'we4'];
 export const PROVISIONAL_BELOW = 20;
 
 const CHARTS: readonly ChartKind[] = ['xmr', 'xbar-r', 'xbar-s', 'p', 'np', 'c', 'u', 'ewma', 'cusum'];
-const COMPANION_NAME: Partial<Record<ChartKind, string>> = { xmr: 'moving range', 'xbar-r': 'range', 'xbar-s': 'standard deviation' };
+const COMPANION_NAME: Partial<Record<ChartKind, string>> = { xmr: 'moving range', 'xbar-r': 'subgroup range', 'xbar-s': 'subgroup standard deviation' };
 
 interface PhaseState {
   readonly plan: PhasePlan;
@@ -281,7 +281,7 @@ export class Evaluator {
       index: plan.index, start: plan.start, end, baselineCount: given ? 0 : s.used, baselineStart: plan.baselineStart,
       provisional: !given && s.used < PROVISIONAL_BELOW,
       centre: p ? fin(p.centre) : null, sigmaWithin: p ? fin(p.sigma) : null,
-      sigmaMethod: p ? p.method : given ? 'given' : isAttributeChart(this.kind) ? (this.kind === 'p' || this.kind === 'np' ? 'binomial' : 'poisson') : 'mr-mean',
+      sigmaMethod: p ? p.method : given ? 'given' : isAttributeChart(this.kind) ? (this.kind === 'p' || this.kind === 'np' ? 'binomial' : 'poisson') : (this.config.sigmaMethod ?? defaultSigmaMethod(this.kind, false, this.kind === 'xmr')),
       source: given ? 'given' : 'baseline',
     } as const;
     return plan.input.reason === undefined ? base : { ...base, reason: plan.input.reason };

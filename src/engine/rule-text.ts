@@ -45,6 +45,7 @@ function compose(rule: RuleCode, side: Side | undefined): string {
   }
 }
 
+/** E.g. "The moving range is above its upper control limit". */
 export function explainCompanion(name: string, side: Side): string {
-  return `1 ${name} ${side} its ${side === 'above' ? 'upper' : 'lower'} control limit`;
+  return `The ${name} is ${side} its ${side === 'above' ? 'upper' : 'lower'} control limit`;
 }

@@ -137,6 +137,7 @@ export interface Signal {
   readonly index: number;
   /** Every point that makes up the pattern, oldest first (CUSUM: the signalling point only; see shiftStart). */
   readonly points: readonly number[];
+  /** Side of the centre line; for the trend rule (n3) 'above' means increasing, 'below' decreasing; absent for n4, n7, n8. */
   readonly side?: 'above' | 'below';
   /** Plain words: "9 points in a row below the centre line". */
   readonly explanation: string;
@@ -188,6 +189,7 @@ export interface Capability {
 
 export interface Analysis {
   readonly chart: ChartKind;
+  /** Built on first read (an enumerable getter: JSON.stringify and structured clone see a plain array). */
   readonly points: readonly ChartPoint[];
   readonly phases: readonly PhaseResult[];
   readonly signals: readonly Signal[];

@@ -10,6 +10,7 @@ function expectAllFinite(a: Analysis): void {
   };
   walk(a, 'analysis');
   expect(JSON.parse(JSON.stringify(a))).toEqual(a);
+  expect(structuredClone(a)).toEqual(a);
 }
 
 const individuals = (xs: readonly number[]) => xs.map((x) => ({ values: [x] }));

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { analyze } from '../../src/engine';
+import { analyze, chartConstants } from '../../src/engine';
 import { expectPrinted } from './fixtures/printed';
 import { PISTON_RINGS } from './fixtures/piston-rings';
 
@@ -48,5 +48,23 @@ describe('analyze() X̄-R', () => {
     expect(b.points[25]!.ucl).toBe(p0.ucl);
     expect(b.signals.map((s) => [s.rule, s.index, s.side])).toEqual([['we1', 25, 'above']]);
     expect(b.signals[0]!.explanation).toBe('1 point above the upper control limit');
+  });
+});
+
+describe('analyze() X̄-R with unequal subgroup sizes', () => {
+  it('estimates sigma as the mean of Rᵢ/d2(nᵢ) and sets limits per point', () => {
+    // σ̂ = mean of Rᵢ/d2(nᵢ) (equals R̄/d2 when sizes are equal); limits x̿ ± 3σ̂/√nᵢ, R chart d2(nᵢ)σ̂ and D4-type limits.
+    // Constants computed from their definitions (chartConstants).
+    const groups = PISTON_RINGS.slice(0, 20).map((g, i) => g.slice(0, 2 + (i % 4)));
+    const a = analyze({ chart: 'xbar-r', subgroups: groups.map((values) => ({ values })) });
+    const sigma = groups.reduce((s, g) => s + (Math.max(...g) - Math.min(...g)) / chartConstants(g.length).d2, 0) / groups.length;
+    expect(a.phases[0]!.sigmaWithin!).toBeCloseTo(sigma, 12);
+    for (const i of [0, 1, 2, 3]) {
+      const n = groups[i]!.length;
+      const k = chartConstants(n);
+      expect(a.points[i]!.ucl! - a.points[i]!.centre!).toBeCloseTo((3 * sigma) / Math.sqrt(n), 12);
+      expect(a.points[i]!.companion!.centre!).toBeCloseTo(k.d2 * sigma, 12);
+      expect(a.points[i]!.companion!.ucl!).toBeCloseTo((k.d2 + 3 * k.d3) * sigma, 12);
+    }
   });
 });

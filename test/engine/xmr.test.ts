@@ -54,6 +54,6 @@ describe('analyze() XmR', () => {
     const data = [10, 10.2, 9.9, 10.1, 10, 9.8, 10.1, 10, 10.2, 9.9, 14];
     const a = analyze({ chart: 'xmr', subgroups: individuals(data), phases: [{ start: 0, baselineCount: 10 }] });
     const mr = a.signals.find((s) => s.companion);
-    expect(mr).toMatchObject({ rule: 'we1', index: 10, points: [9, 10], side: 'above', explanation: '1 moving range above its upper control limit' });
+    expect(mr).toMatchObject({ rule: 'we1', index: 10, points: [9, 10], side: 'above', explanation: 'The moving range is above its upper control limit' });
   });
 });
