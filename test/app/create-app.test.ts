@@ -1,180 +1,22 @@
 /**
  * The app controller end to end: createPlumblineApp on a fake IndexedDB, with the real api client and
- * sync engine talking to the real sync server (src/server on a temporary SQLite file, through fastify's
- * inject). The server team's fixtures give the site, people and PINs (test/server/fixtures.ts).
+ * sync engine talking to the real sync server (see tablet-harness.ts).
  */
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import type { Sample } from '../../src/schema';
-import { createPlumblineApp, type PlumblineApp, type SmallStorage, type SyncPort } from '../../src/app/create-app';
+import { describe, expect, it } from 'vitest';
+import type { PlumblineApp } from '../../src/app/create-app';
 import {
   getAcksForCharacteristic,
   getCurrentSamplesForCharacteristic,
   getDeviceIdentity,
-  getDeviceRecord,
   getOutboxRow,
   getResponsesForCharacteristic,
   getSignedInPerson,
-  saveDeviceRecord,
-  type AppDb,
 } from '../../src/store';
-import { createApiClient } from '../../src/sync/api-client';
-import { createRecordIdGenerator } from '../../src/sync/ids';
 import { verifyOffline } from '../../src/sync/offline-verifier';
-import { createSyncEngine } from '../../src/sync/sync-engine';
-import { issueEnrolmentCode } from '../../src/server/routes/admin-enrolment-codes';
-import { api, enrolDevice, SITE, startTestServer, testUuid, type TestServer } from '../server/fixtures';
-import { closeAll, freshDb } from '../store/helpers';
-import { BASELINE } from './helpers';
+import { SITE } from '../server/fixtures';
+import { enrolled, fromAnotherTablet, HOUR, seedBaseline, signedIn, tablet, useServerPerTest, withSignal } from './tablet-harness';
 
-const BASE = 'http://tablet.test/api/v1';
-const HOUR = 3_600_000;
-
-// A fresh server per test: tablets pull every record of the site, so tests must not share one.
-let server: TestServer;
-beforeEach(async () => {
-  server = await startTestServer();
-});
-
-/** A Map behind the sessionStorage / localStorage surface. */
-function memoryStorage(): SmallStorage & { map: Map<string, string> } {
-  const map = new Map<string, string>();
-  return { map, getItem: (k) => map.get(k) ?? null, setItem: (k, v) => void map.set(k, v), removeItem: (k) => void map.delete(k) };
-}
-
-interface Tablet {
-  app: PlumblineApp;
-  db: AppDb;
-  /** The tablet's clock (ms); tests move it. */
-  clock: { t: number };
-  /** Set online = false and every request fails as if the network were down. */
-  net: { online: boolean };
-  session: ReturnType<typeof memoryStorage>;
-  /** Waits for every sync run the app started, and for the set-up reloads they trigger. */
-  settle(): Promise<void>;
-}
-
-const open: Tablet[] = [];
-
-afterEach(async () => {
-  for (const t of open.splice(0)) {
-    await t.settle();
-    t.app.stop();
-  }
-  closeAll();
-  await server.close();
-});
-
-/** fetch over fastify.inject, with a switch to take the network away. */
-function injectFetch(net: { online: boolean }): typeof fetch {
-  return (async (input: string, init?: RequestInit) => {
-    if (!net.online) throw new TypeError('fetch failed');
-    const url = new URL(input);
-    const res = await server.app.inject({
-      method: (init?.method ?? 'GET') as 'GET' | 'POST',
-      url: url.pathname + url.search,
-      headers: init?.headers as Record<string, string>,
-      ...(init?.body !== undefined ? { payload: String(init.body) } : {}),
-    });
-    const headers = new Headers();
-    for (const [k, v] of Object.entries(res.headers)) if (v !== undefined) headers.set(k, String(v));
-    return new Response(res.body, { status: res.statusCode, headers });
-  }) as unknown as typeof fetch;
-}
-
-/** A tablet app on its own fake IndexedDB (or on `db`, to model a restart). */
-async function tablet(opts: { db?: AppDb; session?: ReturnType<typeof memoryStorage> } = {}): Promise<Tablet> {
-  const db = opts.db ?? (await freshDb());
-  const clock = { t: server.now().getTime() };
-  const net = { online: true };
-  const api = createApiClient({ baseUrl: BASE, fetch: injectFetch(net), now: () => clock.t });
-  const inflight: Promise<unknown>[] = [];
-  const track = <T>(p: Promise<T>): Promise<T> => {
-    inflight.push(p);
-    return p;
-  };
-  const createSync = (): SyncPort => {
-    const engine = createSyncEngine({ db, api, now: () => clock.t, random: () => 0.5, locks: null, windowTarget: null, documentTarget: null });
-    // No timers: runs happen only when the app asks, so each test can wait for all of them.
-    return {
-      syncNow: () => track(engine.syncNow()),
-      start: () => void track(engine.syncNow({ ignoreBackoff: true })),
-      stop: () => engine.stop(),
-      getStatus: () => engine.getStatus(),
-      subscribe: (l) => engine.subscribe(l),
-    };
-  };
-  const ids = createRecordIdGenerator(() => clock.t);
-  const session = opts.session ?? memoryStorage();
-  const app = createPlumblineApp({ db, api, createSync, now: () => clock.t, newId: ids, session, prefs: memoryStorage() });
-  const settle = async () => {
-    for (let seen = -1; seen !== inflight.length; ) {
-      seen = inflight.length;
-      await Promise.allSettled(inflight);
-      await new Promise((r) => setTimeout(r, 5)); // the reload a finished run starts (reloadSetup → refreshViews)
-    }
-  };
-  const t = { app, db, clock, net, session, settle };
-  open.push(t);
-  return t;
-}
-
-async function enrolled(): Promise<Tablet> {
-  const t = await tablet();
-  await t.app.start();
-  const { code } = await issueEnrolmentCode(server.store, SITE, 'p-adm', server.now());
-  expect(await t.app.actions.enrol(code, 'Press 4 tablet')).toBe(true);
-  await t.settle();
-  return t;
-}
-
-async function signedIn(login = 'odile', pin = '1234'): Promise<Tablet> {
-  const t = await enrolled();
-  expect(await t.app.actions.signIn(login, pin)).toBe(true);
-  return t;
-}
-
-/**
- * Twenty in-control lengths saved as if recorded on this tablet over the last 20 hours, then a sync run
- * (after which the app re-reads what it shows). Records only reach IndexedDB through the app or a sync.
- */
-async function seedBaseline(t: Tablet): Promise<string[]> {
-  const deviceId = t.app.getState().device!.deviceId;
-  const ids = createRecordIdGenerator(() => t.clock.t - 21 * HOUR);
-  const saved: string[] = [];
-  for (const [i, v] of BASELINE.entries()) {
-    const id = ids();
-    await saveDeviceRecord(t.db, {
-      kind: 'sample', id, characteristicId: 'ch-len', takenAt: new Date(t.clock.t - (20 - i) * HOUR).toISOString(),
-      recordedBy: 'p-op', deviceId, values: [v],
-    });
-    saved.push(id);
-  }
-  await t.app.actions.syncNow();
-  await t.settle();
-  return saved;
-}
-
-/** Seeds the baseline, signs in and records a length far above the limits. */
-async function withSignal(login = 'odile', pin = '1234') {
-  const t = await enrolled();
-  const baseline = await seedBaseline(t);
-  expect(await t.app.actions.signIn(login, pin)).toBe(true);
-  expect(await t.app.actions.record('ch-len', { values: [11] })).toBe(true);
-  const prompt = t.app.getState().prompt!;
-  expect(prompt).toBeDefined();
-  return { t, baseline, prompt };
-}
-
-/** Another tablet pushes a sample to the server; this tablet then syncs and shows it. */
-async function fromAnotherTablet(t: Tablet, sample: Partial<Sample> & Pick<Sample, 'characteristicId' | 'takenAt'>): Promise<void> {
-  const other = await enrolDevice(server, 'Tablet 2');
-  const record: Sample = { kind: 'sample', id: createRecordIdGenerator(() => Date.parse(sample.takenAt))(), recordedBy: 'p-op', deviceId: other.deviceId, ...sample };
-  const res = await api(server, 'POST', '/api/v1/sync/push', { device: other.deviceToken, body: { batchId: testUuid(), records: [record] } });
-  expect(res.json()).toMatchObject({ results: [{ id: record.id, status: 'stored' }] });
-  await t.app.actions.syncNow();
-  await t.settle();
-  expect(await getDeviceRecord(t.db, record.id)).toBeDefined();
-}
+useServerPerTest();
 
 describe('start and enrolment', () => {
   it('a tablet with no identity starts in the enrol stage', async () => {
