@@ -1,45 +1,48 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { api, enrolDevice, makeSample, signIn, startTestServer, testUuid, type TestServer } from './fixtures';
+import { describeBackends } from './backends';
 
-let server: TestServer;
-let adminTablet: { deviceId: string; deviceToken: string };
-let lineTablet: { deviceId: string; deviceToken: string };
-let adminSession: string;
-beforeEach(async () => {
-  server = await startTestServer();
-  adminTablet = await enrolDevice(server, 'Office tablet');
-  lineTablet = await enrolDevice(server, 'Line tablet');
-  adminSession = await signIn(server, adminTablet.deviceToken, 'ada', '3456');
-});
-afterEach(async () => server.close());
-
-describe('admin device routes', () => {
-  it('lists the site tablets without their tokens', async () => {
-    const res = await api(server, 'GET', '/api/v1/admin/devices', { session: adminSession });
-    expect(res.statusCode).toBe(200);
-    expect(res.json().devices.map((d: { name: string }) => d.name).sort()).toEqual(['Line tablet', 'Office tablet']);
-    expect(res.body).not.toContain(lineTablet.deviceToken);
-    expect(res.body).not.toMatch(/token/i);
+describeBackends('admin device routes', (backend) => {
+  let server: TestServer;
+  let adminTablet: { deviceId: string; deviceToken: string };
+  let lineTablet: { deviceId: string; deviceToken: string };
+  let adminSession: string;
+  beforeEach(async () => {
+    server = await startTestServer({ backend });
+    adminTablet = await enrolDevice(server, 'Office tablet');
+    lineTablet = await enrolDevice(server, 'Line tablet');
+    adminSession = await signIn(server, adminTablet.deviceToken, 'ada', '3456');
   });
+  afterEach(async () => server.close());
 
-  it('withdraws a tablet: its pushes, pulls and sessions stop at once', async () => {
-    const operatorSession = await signIn(server, lineTablet.deviceToken, 'odile', '1234');
-    const res = await api(server, 'POST', `/api/v1/admin/devices/${lineTablet.deviceId}/revoke`, { session: adminSession });
-    expect(res.statusCode).toBe(204);
-    const push = await api(server, 'POST', '/api/v1/sync/push', { device: lineTablet.deviceToken, body: { batchId: testUuid(), records: [makeSample(lineTablet.deviceId)] } });
-    expect(push.statusCode).toBe(401);
-    expect(push.json().error).toBe('device-revoked');
-    expect((await api(server, 'GET', '/api/v1/sync/pull', { device: lineTablet.deviceToken })).statusCode).toBe(401);
-    const setup = await api(server, 'POST', '/api/v1/admin/enrolment-codes', { session: operatorSession, body: {} });
-    expect(setup.json().error).toBe('device-revoked');
-    // The other tablet carries on.
-    expect((await api(server, 'GET', '/api/v1/sync/pull', { device: adminTablet.deviceToken })).statusCode).toBe(200);
-  });
+  describe('admin device routes', () => {
+    it('lists the site tablets without their tokens', async () => {
+      const res = await api(server, 'GET', '/api/v1/admin/devices', { session: adminSession });
+      expect(res.statusCode).toBe(200);
+      expect(res.json().devices.map((d: { name: string }) => d.name).sort()).toEqual(['Line tablet', 'Office tablet']);
+      expect(res.body).not.toContain(lineTablet.deviceToken);
+      expect(res.body).not.toMatch(/token/i);
+    });
 
-  it('refuses a supervisor, and answers 404 for a tablet that is not there', async () => {
-    const sup = await signIn(server, adminTablet.deviceToken, 'sven', '2345');
-    expect((await api(server, 'POST', `/api/v1/admin/devices/${lineTablet.deviceId}/revoke`, { session: sup })).statusCode).toBe(403);
-    expect((await api(server, 'GET', '/api/v1/admin/devices', { session: sup })).statusCode).toBe(403);
-    expect((await api(server, 'POST', '/api/v1/admin/devices/dev-nope/revoke', { session: adminSession })).statusCode).toBe(404);
+    it('withdraws a tablet: its pushes, pulls and sessions stop at once', async () => {
+      const operatorSession = await signIn(server, lineTablet.deviceToken, 'odile', '1234');
+      const res = await api(server, 'POST', `/api/v1/admin/devices/${lineTablet.deviceId}/revoke`, { session: adminSession });
+      expect(res.statusCode).toBe(204);
+      const push = await api(server, 'POST', '/api/v1/sync/push', { device: lineTablet.deviceToken, body: { batchId: testUuid(), records: [makeSample(lineTablet.deviceId)] } });
+      expect(push.statusCode).toBe(401);
+      expect(push.json().error).toBe('device-revoked');
+      expect((await api(server, 'GET', '/api/v1/sync/pull', { device: lineTablet.deviceToken })).statusCode).toBe(401);
+      const setup = await api(server, 'POST', '/api/v1/admin/enrolment-codes', { session: operatorSession, body: {} });
+      expect(setup.json().error).toBe('device-revoked');
+      // The other tablet carries on.
+      expect((await api(server, 'GET', '/api/v1/sync/pull', { device: adminTablet.deviceToken })).statusCode).toBe(200);
+    });
+
+    it('refuses a supervisor, and answers 404 for a tablet that is not there', async () => {
+      const sup = await signIn(server, adminTablet.deviceToken, 'sven', '2345');
+      expect((await api(server, 'POST', `/api/v1/admin/devices/${lineTablet.deviceId}/revoke`, { session: sup })).statusCode).toBe(403);
+      expect((await api(server, 'GET', '/api/v1/admin/devices', { session: sup })).statusCode).toBe(403);
+      expect((await api(server, 'POST', '/api/v1/admin/devices/dev-nope/revoke', { session: adminSession })).statusCode).toBe(404);
+    });
   });
 });

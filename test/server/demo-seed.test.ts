@@ -9,7 +9,8 @@ import { DEMO_CHARACTERISTICS, DEMO_PEOPLE, DEMO_SITE_ID } from '../../src/serve
 import { mulberry32, seededUuidV7 } from '../../src/server/demo/prng';
 import { hasDemo, seedDemo } from '../../src/server/demo/seed-demo';
 import { issueEnrolmentCode } from '../../src/server/routes/admin-enrolment-codes';
-import { openSqliteStore, type SqliteStore } from '../../src/server/store/sqlite-store';
+import type { ServerStore } from '../../src/server/store/server-store';
+import { describeBackends, openTestStore } from './backends';
 import { PROTOCOL } from './fixtures';
 
 const NOW = new Date('2026-12-02T09:30:00.000Z');
@@ -78,17 +79,18 @@ describe('seededUuidV7()', () => {
   });
 });
 
-describe('seedDemo()', () => {
+describeBackends('seedDemo()', (backend) => {
   let dir: string;
-  let store: SqliteStore;
+  let store: ServerStore;
+  let dispose: () => Promise<void>;
   beforeAll(async () => {
     dir = mkdtempSync(join(tmpdir(), 'plumbline-demo-'));
-    store = openSqliteStore(join(dir, 'demo.sqlite'));
+    ({ store, dispose } = await openTestStore(backend));
     expect(await hasDemo(store)).toBe(false);
     await seedDemo(store, NOW);
   });
   afterAll(async () => {
-    await store.close();
+    await dispose();
     rmSync(dir, { recursive: true, force: true });
   });
 

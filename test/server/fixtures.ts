@@ -6,8 +6,8 @@ import { PROTOCOL_HEADER, PROTOCOL_VERSION, type Characteristic, type DeviceReco
 import { createServer, type RateLimits } from '../../src/server/create-server';
 import { hashPin, newOfflineVerifier } from '../../src/server/pin-hash';
 import { issueEnrolmentCode } from '../../src/server/routes/admin-enrolment-codes';
-import type { PersonSecrets } from '../../src/server/store/server-store';
-import { openSqliteStore, type SqliteStore } from '../../src/server/store/sqlite-store';
+import type { PersonSecrets, ServerStore } from '../../src/server/store/server-store';
+import { openTestStore, type Backend, type SqlRunner } from './backends';
 
 export const SITE = 'site-t';
 export const T0 = new Date('2026-11-30T08:00:00.000Z');
@@ -62,7 +62,10 @@ function peopleSecrets(): Promise<Omit<PersonSecrets, 'updatedAt'>[]> {
 
 export interface TestServer {
   readonly app: FastifyInstance;
-  readonly store: SqliteStore;
+  readonly store: ServerStore;
+  readonly backend: Backend;
+  /** Raw SQL on the server's database (`?` placeholders; PostgreSQL returns BIGINT and COUNT as strings). */
+  readonly sql: SqlRunner;
   readonly dir: string;
   /** Moves the test clock. */
   advance(ms: number): void;
@@ -70,10 +73,13 @@ export interface TestServer {
   close(): Promise<void>;
 }
 
-/** A server on a fresh temporary SQLite file with a small site, people with PINs and a fixed clock. */
-export async function startTestServer(opts: { distDir?: string; rateLimits?: Partial<RateLimits> } = {}): Promise<TestServer> {
+/**
+ * A server on a fresh store (a temporary SQLite file by default, or a fresh PostgreSQL schema with
+ * `backend: 'postgres'`) with a small site, people with PINs and a fixed clock.
+ */
+export async function startTestServer(opts: { backend?: Backend; distDir?: string; rateLimits?: Partial<RateLimits> } = {}): Promise<TestServer> {
   const dir = mkdtempSync(join(tmpdir(), 'plumbline-server-'));
-  const store = openSqliteStore(join(dir, 'test.sqlite'));
+  const { store, sql, dispose, backend } = await openTestStore(opts.backend ?? 'sqlite');
   let t = T0.getTime();
   const now = () => new Date(t);
   await store.appendSetup(setupEntries().map((record) => ({ siteId: SITE, record })), now().toISOString());
@@ -83,6 +89,8 @@ export async function startTestServer(opts: { distDir?: string; rateLimits?: Par
   return {
     app,
     store,
+    backend,
+    sql,
     dir,
     advance: (ms) => {
       t += ms;
@@ -90,7 +98,7 @@ export async function startTestServer(opts: { distDir?: string; rateLimits?: Par
     now,
     close: async () => {
       await app.close();
-      await store.close();
+      await dispose();
       rmSync(dir, { recursive: true, force: true });
     },
   };

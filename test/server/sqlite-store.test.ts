@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { contentHash } from '../../src/server/canonical-json';
-import { MIGRATIONS } from '../../src/server/store/sqlite-migrations';
+import { MIGRATIONS } from '../../src/server/store/migrations';
 import { applyMigrations, openSqliteStore, type SqliteStore } from '../../src/server/store/sqlite-store';
 import { makeSample } from './fixtures';
 import { describeServerStoreContract } from './store-contract';

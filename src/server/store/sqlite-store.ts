@@ -1,7 +1,7 @@
 import Database from 'better-sqlite3';
 import { randomBytes } from 'node:crypto';
 import type { DeviceRecord, SetupRecord } from '../../schema/index';
-import { MIGRATIONS, type Migration } from './sqlite-migrations';
+import { MIGRATIONS, type Migration } from './migrations';
 import type {
   CurrentSetup,
   DeviceRow,

@@ -1,7 +1,11 @@
 /**
- * Numbered schema steps for the SQLite store. Steps only add; a step never edits an earlier one.
- * The SQL is kept to what PostgreSQL also accepts (TEXT, BIGINT, ON CONFLICT … DO …), so the
- * PostgreSQL store can reuse the same steps with at most type tweaks.
+ * Numbered schema steps shared by both stores (SQLite and PostgreSQL run the same SQL). Steps only
+ * add; a step never edits an earlier one. Each store applies the steps newer than its database's
+ * version, one transaction per step, and records them in `schema_migrations`.
+ *
+ * Keep the SQL to what both accept: TEXT, INTEGER, BIGINT, PRIMARY KEY/UNIQUE, CREATE INDEX,
+ * plain INSERT. No AUTOINCREMENT/SERIAL (serverSeq comes from the counter row), no SQLite-only
+ * pragmas or PostgreSQL-only types; test/server runs the migrations on both back-ends.
  */
 export interface Migration {
   readonly version: number;
