@@ -31,7 +31,7 @@ import {
 } from './app-state';
 import { buildCharacteristicView } from './build-view';
 import { entryProblem } from './entry-check';
-import { signalsAtNewest } from './signal-state';
+import { signalsAt } from './signal-state';
 import { snapshotSignals } from './snapshots';
 
 /** The sync engine as the app uses it. */
@@ -271,7 +271,7 @@ export function createPlumblineApp(deps: AppDeps) {
       }
       const view = await loadView(characteristicId);
       if (!view) return true;
-      const fired = signalsAtNewest(view.analysis);
+      const fired = signalsAt(view.analysis, view.series.sampleIds.indexOf(sample.id));
       const prompt: SignalPrompt | undefined = fired.length ? { characteristicId, sampleId: sample.id, signals: fired } : undefined;
       set({ views: { ...state.views, [characteristicId]: view }, error: undefined, ...(prompt ? { prompt } : {}) });
       toast(fired.length ? 'Saved on this tablet — a run rule fired' : 'Saved on this tablet');

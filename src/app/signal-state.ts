@@ -52,3 +52,11 @@ export function signalsAtNewest(analysis: Analysis): Signal[] {
   const last = analysis.points.length - 1;
   return analysis.signals.filter((s) => s.index === last);
 }
+
+/**
+ * Signals that fired at one point: what saving the sample at `index` should prompt for. That sample
+ * need not be the newest (another tablet whose clock runs ahead may have sent a later one).
+ */
+export function signalsAt(analysis: Analysis, index: number): Signal[] {
+  return index < 0 ? [] : analysis.signals.filter((s) => s.index === index);
+}

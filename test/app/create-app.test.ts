@@ -152,6 +152,26 @@ describe('record', () => {
     expect(t.app.getState().prompt).toBeUndefined();
   });
 
+  it('prompts only for the sample just saved, even when another tablet’s later-dated sample is the newest point', async () => {
+    const t = await enrolled();
+    await seedBaseline(t);
+    expect(await t.app.actions.signIn('odile', '1234')).toBe(true);
+    // A tablet whose clock runs 10 minutes ahead sent a length far above the limits: it fires WE1 and is the newest point.
+    await fromAnotherTablet(t, { characteristicId: 'ch-len', takenAt: new Date(t.clock.t + 10 * 60_000).toISOString(), values: [11] });
+    expect(await t.app.actions.record('ch-len', { values: [10.01] })).toBe(true);
+    const s = t.app.getState();
+    expect(s.views['ch-len']!.series.sampleIds).toHaveLength(22);
+    expect(s.prompt).toBeUndefined(); // our 10.01 is in control
+    expect(s.toast).toBe('Saved on this tablet');
+    // A value of ours that does fire is prompted for, with its own signals.
+    expect(await t.app.actions.record('ch-len', { values: [9] })).toBe(true);
+    const prompt = t.app.getState().prompt!;
+    const at = t.app.getState().views['ch-len']!.series.sampleIds.indexOf(prompt.sampleId);
+    expect(at).toBe(21);
+    expect(prompt.signals.every((x) => x.index === at)).toBe(true);
+    expect(prompt.signals.find((x) => !x.companion)).toMatchObject({ rule: 'we1', side: 'below' });
+  });
+
   it('an attribute sample keeps its count and quantity inspected', async () => {
     const t = await signedIn();
     expect(await t.app.actions.record('ch-def', { count: 3, inspected: 120 })).toBe(true);

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { Signal } from '../../src/engine/types';
-import { groupSignals, signalsAtNewest } from '../../src/app/signal-state';
+import { groupSignals, signalsAt, signalsAtNewest } from '../../src/app/signal-state';
 import { analysisWith, iso, makeAck, makeResponse, MINUTE, newId, T0 } from './helpers';
 
 const we1 = (index: number, companion = false): Signal => ({
@@ -90,5 +90,18 @@ describe('signalsAtNewest', () => {
 
   it('nothing for an empty chart', () => {
     expect(signalsAtNewest(analysisWith(0, []))).toEqual([]);
+  });
+});
+
+describe('signalsAt', () => {
+  it('returns the signals that fired at that point, whether or not it is the newest', () => {
+    const analysis = analysisWith(8, [we1(2), we2(5), we1(5, true), we1(7)]);
+    expect(signalsAt(analysis, 5).map((s) => [s.rule, s.companion === true])).toEqual([['we2', false], ['we1', true]]);
+    expect(signalsAt(analysis, 7).map((s) => s.index)).toEqual([7]);
+    expect(signalsAt(analysis, 3)).toEqual([]);
+  });
+
+  it('nothing for a sample that is not on the chart (index -1)', () => {
+    expect(signalsAt(analysisWith(8, [we1(7)]), -1)).toEqual([]);
   });
 });
