@@ -29,9 +29,10 @@ let announced = false;
 /** True when the PostgreSQL runs can run; throws in CI when they cannot; otherwise warns once per file. */
 export function postgresAvailable(): boolean {
   if (DATABASE_URL) return true;
-  const msg = `DATABASE_URL is not set, so the PostgreSQL runs of the server tests are skipped. ${HOW_TO_RUN_POSTGRES}`;
-  if (process.env.PLUMBLINE_REQUIRE_POSTGRES === '1') throw new Error(`PLUMBLINE_REQUIRE_POSTGRES=1 but ${msg}`);
-  if (!announced) console.warn(`[postgres skipped] ${msg}`);
+  if (process.env.PLUMBLINE_REQUIRE_POSTGRES === '1') {
+    throw new Error(`PLUMBLINE_REQUIRE_POSTGRES=1 requires the PostgreSQL runs of the server tests, but DATABASE_URL is not set. ${HOW_TO_RUN_POSTGRES}`);
+  }
+  if (!announced) console.warn(`[postgres skipped] DATABASE_URL is not set, so the PostgreSQL runs of the server tests are skipped. ${HOW_TO_RUN_POSTGRES}`);
   announced = true;
   return false;
 }
