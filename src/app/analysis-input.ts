@@ -22,6 +22,11 @@ export function compareSamples(a: Sample, b: Sample): number {
   return a.id < b.id ? -1 : a.id > b.id ? 1 : 0;
 }
 
+function isSorted(samples: readonly Sample[]): boolean {
+  for (let i = 1; i < samples.length; i++) if (compareSamples(samples[i - 1]!, samples[i]!) > 0) return false;
+  return true;
+}
+
 function toSubgroup(ch: Characteristic, s: Sample): SubgroupInput {
   const excluded = s.excluded === true;
   switch (ch.chartType) {
@@ -43,7 +48,7 @@ function toSubgroup(ch: Characteristic, s: Sample): SubgroupInput {
  * characteristic's phases. A phase starts at the first sample taken at or after its start.
  */
 export function buildChartSeries(ch: Characteristic, phases: readonly Phase[], current: readonly Sample[]): ChartSeries {
-  const samples = [...current].sort(compareSamples);
+  const samples = isSorted(current) ? [...current] : [...current].sort(compareSamples);
   const ordered = [...phases].filter((p) => p.characteristicId === ch.id).sort((a, b) => a.number - b.number);
   const phaseInputs: PhaseInput[] = [];
   const phaseIds: string[] = [];

@@ -16,7 +16,9 @@ export function buildCharacteristicView(
   now: number,
 ): CharacteristicView {
   const series = buildChartSeries(characteristic, phases, currentSamples);
-  const analysis = analyzeOrExplain(series.input);
+  // The live chart needs limits and signals, not capability (a study of its own): leave the spec out.
+  const { spec: _spec, ...live } = series.input;
+  const analysis = analyzeOrExplain(live);
   const groups = groupSignals(analysis, series.sampleIds, responses, acks);
   const lastTakenAt = series.samples[series.samples.length - 1]?.takenAt;
   return {

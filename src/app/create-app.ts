@@ -1,7 +1,9 @@
-import type { Person, Response, Sample } from '../schema';
+import type { Acknowledgement, DeviceRecord, Person, Response, Sample } from '../schema';
 import {
   getAcksForCharacteristic,
-  getCurrentSamplesForCharacteristic,
+  getSamplesForCharacteristic,
+  countSamplesForCharacteristic,
+  resolveCorrections,
   getDeviceIdentity,
   getResponsesForCharacteristic,
   getSetup,
@@ -29,6 +31,7 @@ import {
   type SignalPrompt,
   type SyncView,
 } from './app-state';
+import { compareSamples } from './analysis-input';
 import { buildCharacteristicView } from './build-view';
 import { entryProblem } from './entry-check';
 import { signalsAt } from './signal-state';
@@ -106,21 +109,54 @@ export function createPlumblineApp(deps: AppDeps) {
     state = { ...state, ...patch };
     for (const l of listeners) l();
   };
-  const toast = (text: string) => {
-    set({ toast: text });
+  const scheduleToastEnd = () => {
     clearTimeout(toastTimer);
     toastTimer = setTimeout(() => set({ toast: undefined }), 4000);
   };
+  const toast = (text: string) => {
+    set({ toast: text });
+    scheduleToastEnd();
+  };
+
+  /**
+   * The records behind each characteristic, read from IndexedDB once and then kept in step in
+   * memory: a save appends to it, so the chart redraws without re-reading thousands of samples.
+   * A sync run (which may bring other tablets' records) empties it.
+   */
+  const records = new Map<string, { samples: Sample[]; responses: Response[]; acks: Acknowledgement[] }>();
+
+  async function recordsOf(characteristicId: string) {
+    let r = records.get(characteristicId);
+    if (!r) {
+      const [samples, responses, acks] = await Promise.all([
+        getSamplesForCharacteristic(db, characteristicId),
+        getResponsesForCharacteristic(db, characteristicId),
+        getAcksForCharacteristic(db, characteristicId),
+      ]);
+      r = { samples, responses, acks };
+      records.set(characteristicId, r);
+    }
+    return r;
+  }
+
+  /** Keeps the in-memory copy in step with a record that has just been committed to IndexedDB. */
+  function remember(record: DeviceRecord) {
+    const r = records.get(record.characteristicId);
+    if (!r) return;
+    if (record.kind === 'sample') {
+      const last = r.samples[r.samples.length - 1];
+      r.samples.push(record);
+      if (last && compareSamples(last, record) > 0) r.samples.sort(compareSamples);
+    } else if (record.kind === 'response') r.responses.push(record);
+    else r.acks.push(record);
+  }
 
   async function loadView(characteristicId: string): Promise<CharacteristicView | undefined> {
     const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
     if (!ch) return undefined;
-    const [samples, responses, acks] = await Promise.all([
-      getCurrentSamplesForCharacteristic(db, ch.id),
-      getResponsesForCharacteristic(db, ch.id),
-      getAcksForCharacteristic(db, ch.id),
-    ]);
-    return buildCharacteristicView(ch, state.setup.phases, samples, responses, acks, deps.now());
+    const r = await recordsOf(ch.id);
+    
+    return buildCharacteristicView(ch, state.setup.phases, resolveCorrections(r.samples), r.responses, r.acks, deps.now());
   }
 
   async function refreshViews(ids?: readonly string[]) {
@@ -148,7 +184,10 @@ export function createPlumblineApp(deps: AppDeps) {
       const wasSyncing = state.sync.state === 'syncing';
       set({ sync: syncView(s) });
       // Fresh data came down: re-read set-up and charts once a run ends.
-      if (wasSyncing && s.state !== 'syncing') void reloadSetup().then(() => refreshViews());
+      if (wasSyncing && s.state !== 'syncing') {
+        records.clear();
+        void reloadSetup().then(() => refreshViews());
+      }
     });
     set({ sync: syncView(sync.getStatus()) });
     sync.start();
@@ -241,6 +280,7 @@ export function createPlumblineApp(deps: AppDeps) {
     },
     open(screen: Screen) {
       set({ screen, error: undefined });
+      records.clear(); // opening a screen reads afresh: another tab may have written
       if (screen.name === 'characteristic') void refreshViews([screen.characteristicId]);
       else if (screen.name === 'overview') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else void refreshViews();
@@ -265,6 +305,8 @@ export function createPlumblineApp(deps: AppDeps) {
       };
       try {
         await saveDeviceRecord(db, sample, deps.now());
+        performance.mark('plumbline:sample-committed');
+        remember(sample);
       } catch (e) {
         set({ error: `The sample was NOT saved: ${messageOf(e)}` });
         return false;
@@ -273,9 +315,19 @@ export function createPlumblineApp(deps: AppDeps) {
       if (!view) return true;
       const fired = signalsAt(view.analysis, view.series.sampleIds.indexOf(sample.id));
       const prompt: SignalPrompt | undefined = fired.length ? { characteristicId, sampleId: sample.id, signals: fired } : undefined;
-      set({ views: { ...state.views, [characteristicId]: view }, error: undefined, ...(prompt ? { prompt } : {}) });
-      toast(fired.length ? 'Saved on this tablet — a run rule fired' : 'Saved on this tablet');
+      // One state change for the chart, the prompt and the toast: one render.
+      set({ views: { ...state.views, [characteristicId]: view }, error: undefined, ...(prompt ? { prompt } : {}),
+        toast: fired.length ? 'Saved on this tablet — a run rule fired' : 'Saved on this tablet' });
+      scheduleToastEnd();
       void sync?.syncNow();
+      // After the chart is up: another tab (or a pull) may have written samples too, so check that the
+      // cached copy is whole; if not, read it afresh and redraw.
+      void countSamplesForCharacteristic(db, characteristicId).then(async (count) => {
+        const cached = records.get(characteristicId);
+        if (!cached || cached.samples.length === count) return;
+        records.delete(characteristicId);
+        await refreshViews([characteristicId]);
+      });
       return true;
     },
 
@@ -294,6 +346,7 @@ export function createPlumblineApp(deps: AppDeps) {
       };
       try {
         await saveDeviceRecord(db, response, deps.now());
+        remember(response);
       } catch (e) {
         set({ error: `The answer was NOT saved: ${messageOf(e)}` });
         return false;
@@ -323,10 +376,12 @@ export function createPlumblineApp(deps: AppDeps) {
         return false;
       }
       try {
-        await saveDeviceRecord(db, {
+        const ack: Acknowledgement = {
           kind: 'ack', id: deps.newId(), responseId, characteristicId, by: state.person.id,
           at: new Date(deps.now()).toISOString(), deviceId: identity.deviceId, ...(note ? { note } : {}),
-        }, deps.now());
+        };
+        await saveDeviceRecord(db, ack, deps.now());
+        remember(ack);
       } catch (e) {
         set({ error: `The sign-off was NOT saved: ${messageOf(e)}` });
         return false;
@@ -393,6 +448,7 @@ export function createPlumblineApp(deps: AppDeps) {
     for (const k of Object.keys(replacement) as (keyof Sample)[]) if (replacement[k] === undefined) delete replacement[k];
     try {
       await saveDeviceRecord(db, replacement, deps.now());
+      remember(replacement);
     } catch (e) {
       set({ error: `The ${what} was NOT saved: ${messageOf(e)}` });
       return false;

@@ -63,6 +63,12 @@ export async function getSamplesForCharacteristic(db: AppDb, characteristicId: s
   return db.getAllFromIndex('samples', 'byCharacteristicTakenAt', range);
 }
 
+/** How many samples (corrections included) a characteristic has: a cheap check that a cached copy is whole. */
+export async function countSamplesForCharacteristic(db: AppDb, characteristicId: string): Promise<number> {
+  const range = IDBKeyRange.bound([characteristicId, ''], [characteristicId, '\uffff']);
+  return db.countFromIndex('samples', 'byCharacteristicTakenAt', range);
+}
+
 /** The samples as the chart shows them: corrections applied (see resolveCorrections). */
 export async function getCurrentSamplesForCharacteristic(db: AppDb, characteristicId: string): Promise<Sample[]> {
   return resolveCorrections(await getSamplesForCharacteristic(db, characteristicId));

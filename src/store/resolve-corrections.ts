@@ -8,6 +8,8 @@ import type { Sample } from '../schema';
  * the list stays where it is. The input is not mutated.
  */
 export function resolveCorrections(samples: readonly Sample[]): Sample[] {
+  // Most histories have no corrections at all: nothing to resolve.
+  if (!samples.some((s) => s.supersedes !== undefined)) return samples.slice();
   const byId = new Map(samples.map((s) => [s.id, s] as const));
   const latestCorrection = new Map<string, Sample>();
   for (const s of samples) {

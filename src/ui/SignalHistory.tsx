@@ -1,7 +1,7 @@
 import type { AppActions, AppState, CharacteristicView } from '../app/app-state';
 import { ruleName } from './rule-text';
 
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: 'short', timeStyle: 'short' });
+import { formatShortDateTime as when } from './format-time';
 
 /** Signals of one characteristic, newest first, with their answers and sign-off. */
 export function SignalHistory({ view, state, actions }: { view: CharacteristicView; state: AppState; actions: AppActions }) {

@@ -1,4 +1,5 @@
 import type { AppActions, AppState } from '../app/app-state';
+import { formatShortDateTime } from './format-time';
 import { StateChips } from './state-chips';
 
 const CHART_NAMES: Record<string, string> = {
@@ -50,7 +51,7 @@ export function StationBoard({ state, actions }: { state: AppState; actions: App
               <span class="meta">{CHART_NAMES[c.chartType]} · {c.unit} · every {c.intervalMinutes} min</span>
               {v ? <StateChips view={v} /> : <span class="hint">Loading…</span>}
               {last ? (
-                <span class="meta">Last: {new Date(last.takenAt).toLocaleString(undefined, { dateStyle: 'short', timeStyle: 'short' })}</span>
+                <span class="meta">Last: {formatShortDateTime(last.takenAt)}</span>
               ) : null}
             </button>
           );

@@ -1,9 +1,10 @@
+import { formatClock } from './format-time';
 import type { AppState, SyncView } from '../app/app-state';
 import type { AppActions } from '../app/app-state';
 
 function clock(iso: string | undefined): string {
   if (!iso) return 'never';
-  return new Date(iso).toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit' });
+  return formatClock(iso);
 }
 
 /** The sync state in plain words, e.g. "3 waiting to send · offline". */

@@ -24,40 +24,45 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
   const companionName = ch.chartType === 'cusum' ? 'Lower CUSUM (sum of falls below target)' : COMPANION_NAME[ch.chartType];
   const isCount = ch.chartType === 'p' || ch.chartType === 'u';
   const isCusum = ch.chartType === 'cusum';
+  const n = analysis.points.length;
+  // Only the points on show go to the chart: the latest SPAN by default, or the whole history.
+  const to = whole ? n : Math.min(n, end ?? n);
+  const from = whole ? 0 : Math.max(0, to - SPAN);
   const main = useMemo<PlotPoint[]>(
-    () => analysis.points.map((p) => isCusum
+    () => analysis.points.slice(from, to).map((p) => isCusum
       ? { value: p.cusum?.upper ?? null, centre: 0, ucl: p.cusum?.limit ?? null, lcl: null, sigma: null }
       : { value: p.value, centre: p.centre, ucl: p.ucl, lcl: p.lcl, sigma: ch.chartType === 'ewma' ? null : p.sigma }),
-    [analysis],
+    [analysis, from, to],
   );
   const companion = useMemo<PlotPoint[]>(
-    () => analysis.points.map((p) => isCusum
+    () => analysis.points.slice(from, to).map((p) => isCusum
       ? { value: p.cusum?.lower ?? null, centre: 0, ucl: p.cusum?.limit ?? null, lcl: null, sigma: null }
       : { value: p.companion?.value ?? null, centre: p.companion?.centre ?? null, ucl: p.companion?.ucl ?? null, lcl: p.companion?.lcl ?? null, sigma: null }),
-    [analysis],
+    [analysis, from, to],
   );
-  const onCompanion = (s: { companion?: boolean; rule: string; side?: string }) => s.companion === true || (isCusum && s.side === 'below');
+  const onCompanion = (s: { companion?: boolean; side?: string }) => s.companion === true || (isCusum && s.side === 'below');
   const openAt = new Set(view.groups.filter((g) => g.state === 'unanswered').map((g) => g.index));
-  const flags = useMemo<PlotFlag[]>(() => {
+  const flagsFor = (onThisChart: (s: { companion?: boolean; side?: string }) => boolean): PlotFlag[] => {
     const byIndex = new Map<number, string[]>();
     for (const s of analysis.signals) {
-      if (onCompanion(s)) continue;
+      if (!onThisChart(s) || s.index < from || s.index >= to) continue;
       const tags = byIndex.get(s.index) ?? [];
       const tag = ruleTag(s.rule);
       if (!tags.includes(tag)) tags.push(tag);
       byIndex.set(s.index, tags);
     }
-    return [...byIndex].map(([index, tags]) => ({ index, tag: tags.join(' '), open: openAt.has(index) }));
-  }, [analysis, view.groups]);
-  const companionFlags = useMemo<PlotFlag[]>(
-    () => analysis.signals.filter(onCompanion).map((s) => ({ index: s.index, tag: ruleTag(s.rule), open: openAt.has(s.index) })),
-    [analysis, view.groups],
+    return [...byIndex].map(([index, tags]) => ({ index: index - from, tag: tags.join(' '), open: openAt.has(index) }));
+  };
+  const flags = useMemo(() => flagsFor((s) => !onCompanion(s)), [analysis, view.groups, from, to]);
+  const companionFlags = useMemo(() => flagsFor(onCompanion), [analysis, view.groups, from, to]);
+  const phaseStarts = useMemo(
+    () => analysis.phases.filter((p) => p.start > from && p.start < to).map((p) => ({ index: p.start - from, label: `phase ${p.index + 1}` })),
+    [analysis, from, to],
   );
-  const phaseStarts = useMemo(() => analysis.phases.map((p) => p.start), [analysis]);
   const spec = useMemo(() => ({ lsl: ch.spec.lsl, usl: ch.spec.usl }), [ch]);
-  const window = whole ? Math.max(analysis.points.length, 1) : SPAN;
-  const n = analysis.points.length;
   const last = analysis.points[n - 1];
+  const pick = (i: number) => setSelected(from + i);
+  const selectedHere = selected !== null && selected >= from && selected < to ? selected - from : null;
   const f = (v: number | null) => (v === null ? 'not yet computed' : v.toFixed(ch.decimals + 1));
   const label = last
     ? `${MAIN_NAME[ch.chartType]} chart of ${ch.name}, ${n} points. Latest ${f(last.value)}; centre ${f(last.centre)}, limits ${f(last.lcl)} to ${f(last.ucl)}. ${view.groups.filter((g) => g.state === 'unanswered').length} signals open.`
@@ -81,12 +86,12 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
         <span><i class="legend-flag" />run rule fired</span>
       </div>
       <ControlChart label={label} points={main} flags={flags} phaseStarts={phaseStarts} spec={spec} decimals={isCount ? 3 : ch.decimals + 1}
-        height={320} showZones window={window} end={end} testId="main-chart" onPick={setSelected} selected={selected} />
+        height={320} showZones offset={from} testId="main-chart" onPick={pick} selected={selectedHere} />
       {!hasCompanion ? null : (
         <>
           <h3>{companionName}</h3>
           <ControlChart label={`${companionName} chart of ${ch.name}`} points={companion} flags={companionFlags} phaseStarts={phaseStarts}
-            decimals={ch.decimals + 1} height={160} showZones={false} window={window} end={end} testId="companion-chart" onPick={setSelected} selected={selected} />
+            decimals={ch.decimals + 1} height={160} showZones={false} offset={from} testId="companion-chart" onPick={pick} selected={selectedHere} />
         </>
       )}
       <p class="chart-hint">Tap a point for its details · drag across the chart to zoom in, double-tap to zoom out · Earlier / Later move through the history.</p>

@@ -26,16 +26,14 @@ export interface ControlChartProps {
   readonly label: string;
   readonly points: readonly PlotPoint[];
   readonly flags: readonly PlotFlag[];
-  /** Indices where a new phase starts (a boundary is drawn before the point). */
-  readonly phaseStarts: readonly number[];
+  /** Points where a new phase starts (a boundary is drawn before the point), with the phase's name. */
+  readonly phaseStarts: readonly { readonly index: number; readonly label: string }[];
+  /** Index in the whole history of the first point given (the x axis counts from it). */
+  readonly offset: number;
   readonly spec?: { readonly lsl?: number | undefined; readonly usl?: number | undefined };
   readonly decimals: number;
   readonly height: number;
   readonly showZones: boolean;
-  /** How many of the latest points to show; the rest is reached with "whole history". */
-  readonly window: number;
-  /** The last point shown (1-based); null follows the newest point. */
-  readonly end?: number | null;
   readonly testId?: string;
   /** Called with the point's index when a point is tapped. */
   readonly onPick?: (index: number) => void;
@@ -49,7 +47,7 @@ function cssVar(el: Element, name: string, fallback: string): string {
 
 function buildData(p: ControlChartProps): uPlot.AlignedData {
   const n = p.points.length;
-  const x = Array.from({ length: n }, (_, i) => i + 1);
+  const x = Array.from({ length: n }, (_, i) => p.offset + i + 1);
   const col = (f: (q: PlotPoint) => number | null) => p.points.map(f);
   const zone = (k: number) => col((q) => (p.showZones && q.sigma && q.centre !== null ? q.centre + k * q.sigma : null));
   const spec = (v: number | undefined) => x.map(() => (v === undefined ? null : v));
@@ -98,9 +96,9 @@ export function ControlChart(props: ControlChartProps) {
       ctx.strokeStyle = colour.soft;
       ctx.lineWidth = 2 * dpr;
       ctx.setLineDash([]);
-      for (const start of p.phaseStarts) {
+      for (const { index: start, label } of p.phaseStarts) {
         if (start <= 0) continue;
-        const px = u.valToPos(start + 0.5, 'x', true);
+        const px = u.valToPos(p.offset + start + 0.5, 'x', true);
         if (px < u.bbox.left || px > u.bbox.left + u.bbox.width) continue;
         ctx.beginPath();
         ctx.moveTo(px, u.bbox.top);
@@ -108,14 +106,14 @@ export function ControlChart(props: ControlChartProps) {
         ctx.stroke();
         ctx.fillStyle = colour.soft;
         ctx.font = `${12 * dpr}px sans-serif`;
-        ctx.fillText(`phase ${p.phaseStarts.indexOf(start) + 1}`, px + 4 * dpr, u.bbox.top + 14 * dpr);
+        ctx.fillText(label, px + 4 * dpr, u.bbox.top + 14 * dpr);
       }
       // The selected point: a ring in the focus colour.
       if (p.selected !== null && p.selected !== undefined) {
         const v = p.points[p.selected]?.value;
         if (v !== null && v !== undefined) {
           ctx.beginPath();
-          ctx.arc(u.valToPos(p.selected + 1, 'x', true), u.valToPos(v, 'y', true), 13 * dpr, 0, 2 * Math.PI);
+          ctx.arc(u.valToPos(p.offset + p.selected + 1, 'x', true), u.valToPos(v, 'y', true), 13 * dpr, 0, 2 * Math.PI);
           ctx.lineWidth = 3 * dpr;
           ctx.strokeStyle = colour.focus;
           ctx.stroke();
@@ -126,7 +124,7 @@ export function ControlChart(props: ControlChartProps) {
       for (const f of p.flags) {
         const v = p.points[f.index]?.value;
         if (v === null || v === undefined) continue;
-        const cx = u.valToPos(f.index + 1, 'x', true);
+        const cx = u.valToPos(p.offset + f.index + 1, 'x', true);
         const cy = u.valToPos(v, 'y', true);
         if (cx < u.bbox.left - 1 || cx > u.bbox.left + u.bbox.width + 1) continue;
         const r = 9 * dpr;
@@ -150,6 +148,9 @@ export function ControlChart(props: ControlChartProps) {
         ctx.fillText(f.tag, right ? cx + r + 3 * dpr : cx - r - 3 * dpr - w, cy - r);
       }
       ctx.restore();
+      // For the latency benchmark: when the chart has drawn, and whether its newest point is flagged.
+      const n = p.points.length;
+      performance.mark('plumbline:chart-drawn', { detail: { chart: p.testId ?? '', points: n, newestFlagged: p.flags.some((f) => f.index === n - 1) } });
     };
     const opts: uPlot.Options = {
       width: el.clientWidth || 600,
@@ -196,10 +197,8 @@ export function ControlChart(props: ControlChartProps) {
     if (!u) return;
     u.setData(buildData(props), false);
     const n = props.points.length;
-    const to = Math.min(n, props.end ?? n);
-    const from = Math.max(1, to - props.window + 1);
-    u.setScale('x', { min: from - 0.5, max: Math.max(to, from + 1) + 0.5 });
-  }, [props.points, props.flags, props.window, props.end, props.spec, props.showZones, props.phaseStarts]);
+    u.setScale('x', { min: props.offset + 0.5, max: props.offset + Math.max(n, 2) + 0.5 });
+  }, [props.points, props.flags, props.offset, props.spec, props.showZones, props.phaseStarts]);
 
   useEffect(() => plot.current?.redraw(false), [props.selected]);
 

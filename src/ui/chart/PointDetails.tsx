@@ -4,7 +4,7 @@ import { parseEntry } from '../../app/number-entry';
 import { isVariableChart } from '../../schema';
 import { ruleName } from '../rule-text';
 
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+import { formatDateTime as when } from '../format-time';
 
 /** What is behind one point: values, time, who, lot, limits, signals and answers; correct or exclude it. */
 export function PointDetails({ view, index, state, actions, onClose }: {
