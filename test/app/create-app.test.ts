@@ -307,3 +307,65 @@ describe('records the engine cannot chart', () => {
     expect(s.views['ch-def']!.analysis.warnings.join(' ')).toMatch(/cannot be drawn.*150 defectives out of 100 inspected/);
   });
 });
+
+describe('offline first', () => {
+  it('offline, a sample is saved on the tablet and counted as waiting; back online it is sent', async () => {
+    const t = await signedIn();
+    await t.settle();
+    t.net.online = false;
+    expect(await t.app.actions.record('ch-len', { values: [10.03] })).toBe(true);
+    await t.settle();
+    const [saved] = await getCurrentSamplesForCharacteristic(t.db, 'ch-len');
+    expect((await getOutboxRow(t.db, saved!.id))?.state).toBe('pending');
+    expect(t.app.getState().sync).toMatchObject({ state: 'offline', pending: 1 });
+    expect(t.app.getState().views['ch-len']!.series.sampleIds).toEqual([saved!.id]);
+
+    t.net.online = true;
+    t.clock.t += 10 * 60_000; // past any backoff
+    await t.app.actions.syncNow();
+    await t.settle();
+    expect((await getOutboxRow(t.db, saved!.id))?.state).toBe('acked');
+    expect(t.app.getState().sync).toMatchObject({ state: 'idle', pending: 0 });
+  });
+});
+
+describe('people and navigation', () => {
+  it('signing out forgets the person and closes an open prompt; the tablet still knows who signed in here', async () => {
+    const { t } = await withSignal();
+    t.app.actions.signOut();
+    const s = t.app.getState();
+    expect(s.stage).toBe('sign-in');
+    expect(s.person).toBeUndefined();
+    expect(s.prompt).toBeUndefined();
+    expect(t.session.map.has('plumbline.person')).toBe(false);
+    expect(s.signedIn.map((p) => p.id)).toEqual(['p-op']);
+  });
+
+  it('open() moves between screens and clears an error; selectStation() remembers the station', async () => {
+    const t = await signedIn();
+    await t.app.actions.record('ch-len', { values: [Number.NaN] });
+    expect(t.app.getState().error).toBeDefined();
+    t.app.actions.open({ name: 'characteristic', characteristicId: 'ch-len' });
+    expect(t.app.getState()).toMatchObject({ screen: { name: 'characteristic', characteristicId: 'ch-len' } });
+    expect(t.app.getState().error).toBeUndefined();
+    t.app.actions.selectStation('st-1');
+    expect(t.app.getState()).toMatchObject({ stationId: 'st-1', screen: { name: 'board' } });
+    await t.settle();
+  });
+
+  it('an inactive person cannot sign in', async () => {
+    const t = await enrolled();
+    expect(await t.app.actions.signIn('gone', '4567')).toBe(false);
+    expect(t.app.getState()).toMatchObject({ stage: 'sign-in', error: 'Login or PIN is not right.' });
+  });
+
+  it('offline sign-in ignores the case of the login', async () => {
+    const t = await signedIn();
+    await t.settle();
+    t.app.actions.signOut();
+    t.net.online = false;
+    expect(await t.app.actions.signIn('ODILE', '1234')).toBe(true);
+    expect(t.app.getState().person?.id).toBe('p-op');
+  });
+});
+
