@@ -76,24 +76,22 @@ export function estimatePhase(kind: ChartKind, stats: SubgroupStats, from: numbe
   if (used === 0) return { params: null, used, warnings: ['No subgroups in the baseline: limits cannot be computed.'] };
   const centre = sumNX / sumN; // grand mean weighted by subgroup size (Montgomery, variable n)
   const method = requested ?? defaultSigmaMethod(kind, sizesVary, allSingle);
-  const sigma = estimateSigma(method, stats, from, to, warnings);
+  const sigma = estimateSigma(method, stats, from, to, warnings, allSingle);
   if (sigma === null) return { params: null, used, warnings };
   const mrCentreFactor = method === 'mr-median' ? MEDIAN_MR_FACTOR : chartConstants(2).d2;
   const pooledS = method === 'pooled' ? pooledSd(stats, from, to) : NaN;
   return { params: { centre, sigma, method, mrCentreFactor, pooledS }, used, warnings };
 }
 
-function estimateSigma(method: SigmaMethod, stats: SubgroupStats, from: number, to: number, warnings: string[]): number | null {
+function estimateSigma(method: SigmaMethod, stats: SubgroupStats, from: number, to: number, warnings: string[], allSingle: boolean): number | null {
   const ex = stats.excluded;
   const sp = stats.spread;
   const sz = stats.size;
   let sigma: number;
   if (method === 'mr-mean' || method === 'mr-median') {
-    for (let i = from; i < to; i++) {
-      if (sz[i] !== 1) {
-        warnings.push('The moving-range estimate needs one value per subgroup.');
-        return null;
-      }
+    if (!allSingle) {
+      warnings.push('The moving-range estimate needs one value per subgroup.');
+      return null;
     }
     // A moving range counts only when both of its points are included.
     const mrs: number[] = [];

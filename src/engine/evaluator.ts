@@ -7,6 +7,7 @@
  */
 import { defaultSigmaMethod, estimatePhase, isAttributeChart, type PhaseParams } from './estimate';
 import { computeLimits, emptyLimits } from './limits';
+import { CONTEXT, detectBatch } from './bit-rules';
 import { planPhases, type PhasePlan } from './phase-plan';
 import { makeAnalysis } from './result';
 import { explainCompanion } from './rule-text';
@@ -19,6 +20,9 @@ export type EvaluatorConfig = Omit<AnalysisInput, 'subgroups' | 'individuals'>;
 
 /** Rules used when none are chosen: Western Electric 1–4. */
 export const DEFAULT_RULES: readonly RuleCode[] = ['we1', 'we2', 'we3', 'we4'];
+
+// Runs of points at least this long go to the word-parallel detector.
+const BATCH_MIN = 64;
 
 /** Baselines with fewer included subgroups give provisional limits (common practice: 20–25). */
 export const PROVISIONAL_BELOW = 20;
@@ -200,17 +204,27 @@ export class Evaluator {
     const smoother = this.smoother;
     const companion = this.hasCompanion && this.companionRule !== null;
     const { value: values, size: sizes, spread: spreads } = this.stats;
-    if (kind === 'xmr') {
-      // One value per subgroup: the limits are the same for the whole segment.
-      if (params !== this.limParams || this.limSize !== 1) {
-        computeLimits(kind, params, 1, lim);
+    if (to - from >= BATCH_MIN && !smoother && constantSize(sizes, from, to)) {
+      // Same limits for the whole run of points: detect the rules word-parallel (bit-rules.ts).
+      const size = sizes[from]!;
+      if (params !== this.limParams || size !== this.limSize) {
+        computeLimits(kind, params, size, lim);
         this.limParams = params;
-        this.limSize = 1;
+        this.limSize = size;
       }
-      rules.pushRun(values, from, to, lim.centre, lim.sigma, sigs);
-      if (this.companionRule) {
+      const start = this.phaseStartOf(from);
+      detectBatch(values, Math.max(start, from - CONTEXT), from, to, lim.centre, lim.sigma, rules.set, sigs);
+      // Leave the point-by-point evaluator in the state it would have after `to`: replaying the
+      // last CONTEXT points from a reset is enough, as every counter only matters up to 15.
+      rules.reset();
+      rules.pushRun(values, Math.max(start, to - CONTEXT), to, lim.centre, lim.sigma, []);
+      if (companion) {
         const ucl = lim.cUcl;
-        for (let i = from; i < to; i++) if (spreads[i]! > ucl) this.companionSignal(i, 'above');
+        const lcl = lim.cLcl;
+        for (let i = from; i < to; i++) {
+          const spread = spreads[i]!;
+          if (spread > ucl || (lcl > 0 && spread < lcl)) this.companionSignal(i, spread > ucl ? 'above' : 'below');
+        }
         sortTail(sigs, from);
       }
       return;
@@ -233,6 +247,12 @@ export class Evaluator {
         if (spread > lim.cUcl || (lim.cLcl > 0 && spread < lim.cLcl)) this.companionSignal(i, spread > lim.cUcl ? 'above' : 'below');
       }
     }
+  }
+
+  private phaseStartOf(i: number): number {
+    let p = this.states.length - 1;
+    while (p > 0 && this.states[p]!.plan.start > i) p--;
+    return this.states[p]!.plan.start;
   }
 
   private companionSignal(i: number, side: 'above' | 'below'): void {
@@ -289,6 +309,12 @@ export class Evaluator {
 }
 
 const RULES = new Set<string>(['we1', 'we2', 'we3', 'we4', 'n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8']);
+
+function constantSize(sizes: Float64Array, from: number, to: number): boolean {
+  const n = sizes[from]!;
+  for (let i = from + 1; i < to; i++) if (sizes[i] !== n) return false;
+  return true;
+}
 
 // Signals at index ≥ from were pushed by two passes over the same points; order them by index
 // (stable, so rule order within a point is kept: run rules first, then the companion chart).

@@ -1,0 +1,63 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { ALL_RULES, Evaluator, type RuleCode, type Signal } from '../../src/engine';
+import { CONTEXT, detectBatch } from '../../src/engine/bit-rules';
+import { ruleSet } from '../../src/engine/rule-signals';
+import { RuleEvaluator } from '../../src/engine/rules';
+
+// The word-parallel detector must give exactly the signals of the point-by-point evaluator
+// (same rules, same points, same order), whatever the data, rule subset and starting point.
+// Values include the zone lines themselves and repeated values (ties), where the rules are subtle.
+const value = fc.oneof(fc.constantFrom(0, 1, -1, 2, -2, 3, -3, 0.5, -0.5), fc.double({ min: -4, max: 4, noNaN: true }));
+
+function scalar(values: Float64Array, from: number, to: number, rules: readonly RuleCode[]): Signal[] {
+  const ev = new RuleEvaluator(rules);
+  const out: Signal[] = [];
+  ev.pushRun(values, 0, to, 0, 1, out);
+  return out.filter((s) => s.index >= from);
+}
+
+describe('detectBatch()', () => {
+  it('matches the point-by-point evaluator', () => {
+    fc.assert(
+      fc.property(fc.array(value, { minLength: 1, maxLength: 300 }), fc.subarray([...ALL_RULES], { minLength: 1 }), fc.nat(), (xs, rules, f) => {
+        const values = Float64Array.from(xs);
+        const from = f % xs.length;
+        const out: Signal[] = [];
+        detectBatch(values, Math.max(0, from - CONTEXT), from, xs.length, 0, 1, ruleSet(rules), out);
+        expect(out).toEqual(scalar(values, from, xs.length, rules));
+      }),
+      { numRuns: 400, seed: 20261202 },
+    );
+  });
+
+  it('matches on long runs that cross many words (all rules, centre and sigma not 0 and 1)', () => {
+    const xs = Array.from({ length: 2000 }, (_, i) => 10 + 0.7 * Math.sin(i * 0.37) + (i % 97 < 20 ? 0.9 : 0) + (i % 13 === 0 ? 1.6 : 0));
+    const values = Float64Array.from(xs);
+    const out: Signal[] = [];
+    detectBatch(values, 0, 0, xs.length, 10, 0.5, ruleSet(ALL_RULES), out);
+    const ev = new RuleEvaluator(ALL_RULES);
+    const ref: Signal[] = [];
+    ev.pushRun(values, 0, xs.length, 10, 0.5, ref);
+    expect(ref.length).toBeGreaterThan(50);
+    expect(out).toEqual(ref);
+  });
+});
+
+describe('Evaluator after a batch', () => {
+  it('continues point by point exactly as a single batch would (state rebuilt from the last points)', () => {
+    fc.assert(
+      fc.property(fc.array(value, { minLength: 70, maxLength: 260 }), fc.subarray([...ALL_RULES], { minLength: 1 }), fc.nat(), (xs, rules, k) => {
+        const split = 64 + (k % (xs.length - 64));
+        const config = { chart: 'xmr' as const, phases: [{ start: 0, given: { centre: 0, sigma: 1 } }], rules };
+        const whole = new Evaluator(config);
+        whole.appendValues(xs);
+        const parts = new Evaluator(config);
+        parts.appendValues(xs.slice(0, split));
+        for (const x of xs.slice(split)) parts.append({ values: [x] });
+        expect(parts.analysis().signals).toEqual(whole.analysis().signals);
+      }),
+      { numRuns: 200, seed: 7 },
+    );
+  });
+});
