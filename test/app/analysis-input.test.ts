@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { buildChartSeries, compareSamples } from '../../src/app/analysis-input';
+import { buildChartSeries, compareSamples, DEFAULT_CUSUM, DEFAULT_EWMA } from '../../src/app/analysis-input';
 import { buildCharacteristicView } from '../../src/app/build-view';
 import { resolveCorrections } from '../../src/store/resolve-corrections';
 import { BASELINE, individuals, iso, makeCharacteristic, makePhase, MINUTE, sampleAt, T0 } from './helpers';
@@ -193,5 +193,28 @@ describe('buildChartSeries: variable and attribute subgroups', () => {
     const c = makeCharacteristic({ chartType: 'c', subgroupSize: 1, decimals: 0 });
     const s = buildChartSeries(c, [], [sampleAt(0, { values: undefined, count: 5, inspected: 10 })]);
     expect(s.input.subgroups).toEqual([{ count: 5, excluded: false }]);
+  });
+});
+
+describe('buildChartSeries: EWMA and CUSUM characteristics', () => {
+  it('EWMA: the values, with the characteristic’s λ and L or the default design', () => {
+    const own = buildChartSeries(makeCharacteristic({ chartType: 'ewma', ewma: { lambda: 0.1, L: 2.7 } }), [], [sampleAt(0, { values: [10.2] })]);
+    expect(own.input).toMatchObject({ chart: 'ewma', subgroups: [{ values: [10.2], excluded: false }], ewma: { lambda: 0.1, L: 2.7 } });
+    expect(own.input.cusum).toBeUndefined();
+    const def = buildChartSeries(makeCharacteristic({ chartType: 'ewma' }), [], [sampleAt(0)]);
+    expect(def.input.ewma).toEqual(DEFAULT_EWMA);
+  });
+
+  it('CUSUM: the values, with the characteristic’s k and h or the default design', () => {
+    const own = buildChartSeries(makeCharacteristic({ chartType: 'cusum', cusum: { k: 0.25, h: 8 } }), [], [sampleAt(0, { values: [10.2] })]);
+    expect(own.input).toMatchObject({ chart: 'cusum', subgroups: [{ values: [10.2], excluded: false }], cusum: { k: 0.25, h: 8 } });
+    expect(own.input.ewma).toBeUndefined();
+    expect(buildChartSeries(makeCharacteristic({ chartType: 'cusum' }), [], [sampleAt(0)]).input.cusum).toEqual(DEFAULT_CUSUM);
+  });
+
+  it('Shewhart charts carry neither design', () => {
+    const s = buildChartSeries(makeCharacteristic(), [], [sampleAt(0)]);
+    expect(s.input.ewma).toBeUndefined();
+    expect(s.input.cusum).toBeUndefined();
   });
 });

@@ -5,8 +5,8 @@ import { makeCharacteristic, sampleAt, T0 } from './helpers';
 
 describe('entryProblem', () => {
   it('variable charts need values', () => {
-    for (const chartType of ['xmr', 'xbar-r', 'xbar-s'] as const) {
-      const ch = makeCharacteristic({ chartType, subgroupSize: chartType === 'xmr' ? 1 : 4 });
+    for (const chartType of ['xmr', 'xbar-r', 'xbar-s', 'ewma', 'cusum'] as const) {
+      const ch = makeCharacteristic({ chartType, subgroupSize: chartType.startsWith('xbar') ? 4 : 1 });
       expect(entryProblem(ch, { values: [10] })).toBeUndefined();
       expect(entryProblem(ch, {})).toBe('Bore diameter is measured: enter the measured value.');
       expect(entryProblem(ch, { values: [] })).toMatch(/is measured/);

@@ -80,3 +80,36 @@ describe('snapshotSignals', () => {
     expect(SignalSnapshot.safeParse(snap).success).toBe(true);
   });
 });
+
+describe('snapshotSignals on an EWMA characteristic', () => {
+  // EWMA: zᵢ = λxᵢ + (1 − λ)zᵢ₋₁ with z₀ = μ₀; exact limits μ₀ ± Lσ√(λ/(2 − λ)·(1 − (1 − λ)^{2i})).
+  // source: S. W. Roberts, "Control chart tests based on geometric moving averages", Technometrics 1(3), 1959;
+  // Montgomery, Introduction to Statistical Quality Control, EWMA chapter — from memory. σ = MR̄/d2(2) as above.
+  const ch = makeCharacteristic({ chartType: 'ewma', ewma: { lambda: 0.2, L: 2.962 } });
+  const shifted = [10.1, 10.12, 10.1, 10.15, 10.12, 10.1];
+  const samples = individuals([...BASELINE, ...shifted]);
+  const view = buildCharacteristicView(ch, [], samples, [], [], T0);
+
+  it('the first EWMA signal carries the EWMA limit at that point, computed here from the definition', () => {
+    const mu = mean(BASELINE);
+    const sigma = mean(movingRanges(BASELINE)) / d2;
+    const { lambda, L } = { lambda: 0.2, L: 2.962 };
+    let z = mu;
+    const ucl: number[] = [];
+    const zs: number[] = [];
+    [...BASELINE, ...shifted].forEach((x, k) => {
+      z = lambda * x + (1 - lambda) * z;
+      zs.push(z);
+      ucl.push(mu + L * sigma * Math.sqrt((lambda / (2 - lambda)) * (1 - (1 - lambda) ** (2 * (k + 1)))));
+    });
+    const firstAbove = zs.findIndex((v, k) => v > ucl[k]!);
+    const first = view.analysis.signals.find((s) => s.rule === 'ewma')!;
+    expect(first.index).toBe(firstAbove);
+    const [snap] = snapshotSignals([first], view.analysis, view.series);
+    expect(snap!.rule).toBe('ewma');
+    expect(snap!.centre).toBeCloseTo(mu, 10);
+    expect(snap!.ucl).toBeCloseTo(ucl[firstAbove]!, 10);
+    expect(snap!.sampleIds).toEqual([samples[firstAbove]!.id]);
+    expect(SignalSnapshot.safeParse(snap).success).toBe(true);
+  });
+});
