@@ -147,6 +147,8 @@ const lines = [
   `| append one subgroup, 100,000 points of history | ${ns(append100k)} | — |`,
   `| **append ratio 100,000 / 1,000** | ${ratio(append100k, append1k)} | ≤ 1.5× |`,
   '',
+  `Targets: full analysis within 10× of the bare pass — ${full.wall / bare.wall <= 10 ? 'met' : 'not met'}; append at 100,000 within 1.5× of at 1,000 — ${append100k.wall / append1k.wall <= 1.5 ? 'met' : 'not met'} (by minimum wall time).`,
+  '',
   'Notes:',
   '- The full analysis covers reading and checking the values, the baseline estimate, limits, all 8 Nelson rules,',
   '  the moving-range chart check and the signal list. Point objects are built only when `points` is first read.',
