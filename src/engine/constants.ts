@@ -79,6 +79,12 @@ function rangeSecondMoment(n: number): number {
   return (outer * H) / 3;
 }
 
+/** d2(n) and d3(n) by numerical integration of the range distribution (the definitions). */
+export function rangeMoments(n: number): { d2: number; d3: number } {
+  const d2 = rangeMean(n);
+  return { d2, d3: Math.sqrt(rangeSecondMoment(n) - d2 * d2) };
+}
+
 export function c4(n: number): number {
   return Math.sqrt(2 / (n - 1)) * Math.exp(lnGamma(n / 2) - lnGamma((n - 1) / 2));
 }
@@ -90,8 +96,9 @@ export function chartConstants(n: number): ChartConstants {
   if (!Number.isInteger(n) || n < 2) throw new RangeError(`chart constants need an integer subgroup size of at least 2, got ${n}`);
   const hit = cache.get(n);
   if (hit) return hit;
-  const d2 = rangeMean(n);
-  const d3 = Math.sqrt(rangeSecondMoment(n) - d2 * d2);
+  // n = 2 has closed forms (W = |X1 − X2| is half-normal with scale √2): no integration on the
+  // XmR path, which every individuals chart needs at once. rangeMoments(2) checks them in the tests.
+  const { d2, d3 } = n === 2 ? { d2: 2 / Math.sqrt(Math.PI), d3: Math.sqrt(2 - 4 / Math.PI) } : rangeMoments(n);
   const c = c4(n);
   const sq = Math.sqrt(1 - c * c);
   const k: ChartConstants = {
