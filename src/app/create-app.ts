@@ -257,7 +257,9 @@ export function createPlumblineApp(deps: AppDeps) {
           set({ error: known ? 'Login or PIN is not right.' : 'The server cannot be reached, and this person has not signed in on this tablet before.' });
           return false;
         }
-        set({ error: e instanceof ApiError && e.code === 'unauthorized' ? 'Login or PIN is not right.' : messageOf(e) });
+        // Only the sign-in refusal means a wrong login or PIN; a withdrawn tablet gets the server's own words.
+        const wrongPin = e instanceof ApiError && e.code === 'unauthorized' && (e.details.serverCode ?? 'sign-in-failed') === 'sign-in-failed';
+        set({ error: wrongPin ? 'Login or PIN is not right.' : messageOf(e) });
         return false;
       }
     },

@@ -13,10 +13,10 @@ import {
   getSignedInPerson,
 } from '../../src/store';
 import { verifyOffline } from '../../src/sync/offline-verifier';
-import { SITE } from '../server/fixtures';
+import { api, enrolDevice, signIn as serverSignIn, SITE } from '../server/fixtures';
 import { enrolled, fromAnotherTablet, HOUR, seedBaseline, signedIn, tablet, useServerPerTest, withSignal } from './tablet-harness';
 
-useServerPerTest();
+const server = useServerPerTest();
 
 describe('start and enrolment', () => {
   it('a tablet with no identity starts in the enrol stage', async () => {
@@ -357,6 +357,16 @@ describe('people and navigation', () => {
     const t = await enrolled();
     expect(await t.app.actions.signIn('gone', '4567')).toBe(false);
     expect(t.app.getState()).toMatchObject({ stage: 'sign-in', error: 'Login or PIN is not right.' });
+  });
+
+  it('a tablet an administrator has withdrawn is told so, not that the PIN is wrong', async () => {
+    const t = await enrolled();
+    const adminTablet = await enrolDevice(server(), 'Office tablet');
+    const session = await serverSignIn(server(), adminTablet.deviceToken, 'ada', '3456');
+    const res = await api(server(), 'POST', `/api/v1/admin/devices/${t.app.getState().device!.deviceId}/revoke`, { session });
+    expect(res.statusCode).toBe(204);
+    expect(await t.app.actions.signIn('odile', '1234')).toBe(false);
+    expect(t.app.getState().error).toMatch(/withdrawn by an administrator/);
   });
 
   it('offline sign-in ignores the case of the login', async () => {
