@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { normalCdf, type Signal } from '../../src/engine';
+import { analyze, normalCdf, type Signal } from '../../src/engine';
 import { emptyLimits } from '../../src/engine/limits';
 import { RuleEvaluator } from '../../src/engine/rules';
 import { CusumSmoother, EwmaSmoother, SmoothedColumns, type Smoother } from '../../src/engine/smoothers';
@@ -64,6 +64,24 @@ function expectArl(result: { mean: number; sd: number }, ref: number, sdrl: numb
   const tolerance = (4 * (sdrl ?? result.sd)) / Math.sqrt(n);
   expect(Math.abs(result.mean - ref), `mean ${result.mean.toFixed(3)} vs ${ref} ± ${tolerance.toFixed(3)}`).toBeLessThanOrEqual(tolerance);
 }
+
+describe('ARL through analyze() (batch detector, end to end)', () => {
+  it('Western Electric rules 1–4, δ = 0: 91.75 with N = 2,000 runs', () => {
+    // Same reference as below (Champ & Woodall 1987; exact 91.7508 [C]); N reduced to 2,000 runs of
+    // 2,000 points (cap ≈ 22×ARL, P(no signal) < 1e-9), so the 4·SE tolerance widens to 4·89.8/√2000.
+    const draw = seededNormal(SEED + 1);
+    const n = 2_000;
+    let sum = 0;
+    for (let r = 0; r < n; r++) {
+      const xs = new Float64Array(2_000);
+      for (let i = 0; i < xs.length; i++) xs[i] = 50 + 2 * draw();
+      const a = analyze({ chart: 'xmr', individuals: xs, phases: [{ start: 0, given: { centre: 50, sigma: 2 } }], rules: ['we1', 'we2', 'we3', 'we4'] });
+      const first = a.signals.find((s) => !s.companion);
+      sum += first ? first.index + 1 : xs.length;
+    }
+    expect(Math.abs(sum / n - 91.75)).toBeLessThanOrEqual((4 * 89.8) / Math.sqrt(n));
+  });
+});
 
 describe('Shewhart ARL, analytically', () => {
   // ARL = 1/p, p = 1 − Φ(3 − δ) + Φ(−3 − δ): computed from the definition (spc-reference §4.1 [C]);
@@ -136,6 +154,13 @@ describe('Monte Carlo ARL of the engine', () => {
   // integral equation (spc-reference §4.4 [C]). Asymptotic limits, as in the table.
   it('EWMA λ = 0.1, L = 2.814, δ = 0: 499.6', () => {
     expectArl(meanRunLength(20_000, 50_000, smootherRun(new EwmaSmoother(0.1, 2.814, true), 0, 50_000)), 499.6, 490, 20_000);
+  });
+
+  it('EWMA λ = 0.1, L = 2.814 with exact time-varying limits, δ = 0: 485.3', () => {
+    // source: Monte Carlo reference, 200,000 runs, 485.3 ± 1.1 (spc-reference §4.4 [C]): the early
+    // narrow limits signal sooner than the asymptotic table value; the reference's ±1.1 is added.
+    const r = meanRunLength(20_000, 50_000, smootherRun(new EwmaSmoother(0.1, 2.814, false), 0, 50_000));
+    expect(Math.abs(r.mean - 485.3)).toBeLessThanOrEqual((4 * r.sd) / Math.sqrt(20_000) + 1.1);
   });
 
   it('EWMA λ = 0.1, L = 2.814, δ = 1: 10.33', () => {
