@@ -30,8 +30,13 @@ export function withCapability(ev: Evaluator, input: EvaluatorConfig): Analysis 
     (a.warnings as string[]).push('Capability indices need measured values: not computed for an attribute chart.');
     return a;
   }
-  const phase = a.phases[a.phases.length - 1];
-  if (!phase) return a;
+  const chosen = input.capabilityPhase;
+  if (chosen !== undefined && !(Number.isInteger(chosen) && chosen >= 0)) throw new EngineInputError(`capabilityPhase must be a phase index, got ${chosen}`);
+  const phase = a.phases[chosen ?? a.phases.length - 1];
+  if (!phase) {
+    if (chosen !== undefined) (a.warnings as string[]).push(`Phase ${chosen + 1} has no data yet: capability not computed.`);
+    return a;
+  }
   const capability = studyCapability({ kind: input.chart, stats: ev.subgroupStats, phase, signals: a.signals, spec, sigmaMethod: input.sigmaMethod, confidence: input.confidence ?? 0.95 });
   return ev.analysis(true, capability);
 }

@@ -77,6 +77,8 @@ export interface AnalysisInput {
   readonly cusum?: { readonly k: number; readonly h: number };
   /** Capability confidence level, default 0.95. */
   readonly confidence?: number;
+  /** Phase (index into the phases) studied by the capability analysis; default the last phase with data. */
+  readonly capabilityPhase?: number;
 }
 
 /** Limits of one plotted point (per point because the sample size may vary). */

@@ -60,6 +60,20 @@ describe('capability via analyze()', () => {
     expect(b.capability!.cautions.some((t) => /Only 20 values/.test(t))).toBe(true);
   });
 
+  it('studies the chosen phase', () => {
+    const subgroups = [...PISTON_RINGS.map((values) => ({ values })), ...PISTON_RINGS.slice(0, 10).map((values) => ({ values: values.map((v) => v + 0.02) }))];
+    const phases = [{ start: 0 }, { start: 25 }];
+    const first = analyze({ chart: 'xbar-r', subgroups, phases, spec: { lsl: 73.95, usl: 74.05 }, capabilityPhase: 0 });
+    expect(first.capability!.phase).toBe(0);
+    expect(first.capability!.cp!).toBeCloseTo(1.6681, 4);
+    const last = analyze({ chart: 'xbar-r', subgroups, phases, spec: { lsl: 73.95, usl: 74.05 } });
+    expect(last.capability!.phase).toBe(1);
+    expect(last.capability!.n).toBe(50);
+    const none = analyze({ chart: 'xbar-r', subgroups, phases, spec: { lsl: 73.95, usl: 74.05 }, capabilityPhase: 5 });
+    expect(none.capability).toBeUndefined();
+    expect(none.warnings).toContain('Phase 6 has no data yet: capability not computed.');
+  });
+
   it('rejects a specification with USL ≤ LSL', () => {
     expect(() => analyze({ chart: 'xmr', subgroups: [{ values: [1] }, { values: [2] }], spec: { lsl: 5, usl: 5 } })).toThrow(/must be above the lower/);
   });
