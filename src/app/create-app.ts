@@ -250,6 +250,10 @@ export function createPlumblineApp(deps: AppDeps) {
         if (e instanceof ApiError && (e.code === 'offline' || e.code === 'server' || e.code === 'bad-response')) {
           // No server: people who signed in on this tablet before can sign in against their cached verifier.
           const known = await getSignedInPerson(db, login);
+          if (known && state.setup.people.some((p) => p.id === known.personId && !p.active)) {
+            set({ error: 'This person is no longer active on this site.' });
+            return false;
+          }
           if (known && (await verifyOffline(pin, known.offlineVerifier))) {
             await becomeReady(toPerson(known));
             return true;

@@ -369,6 +369,24 @@ describe('people and navigation', () => {
     expect(t.app.getState().error).toMatch(/withdrawn by an administrator/);
   });
 
+  it('offline, a person the site has since deactivated cannot sign in with the cached verifier', async () => {
+    const t = await signedIn();
+    await t.settle();
+    t.app.actions.signOut();
+    // The site deactivates Odile; the tablet learns it with its next sync, then loses the network.
+    await server().store.appendSetup(
+      [{ siteId: SITE, record: { kind: 'person', id: 'p-op', body: { id: 'p-op', name: 'Odile Test', login: 'odile', role: 'operator', active: false } } }],
+      server().now().toISOString(),
+    );
+    await t.app.actions.syncNow();
+    await t.settle();
+    expect(t.app.getState().setup.people.find((p) => p.id === 'p-op')?.active).toBe(false);
+    t.net.online = false;
+    expect(await t.app.actions.signIn('odile', '1234')).toBe(false);
+    expect(t.app.getState().stage).toBe('sign-in');
+    expect(t.app.getState().error).toMatch(/no longer active/);
+  });
+
   it('offline sign-in ignores the case of the login', async () => {
     const t = await signedIn();
     await t.settle();
