@@ -1,6 +1,6 @@
 import { render } from 'preact';
 import { createPlumblineApp } from './app/create-app';
-import { openAppDb, requestPersistentStorage } from './store';
+import { estimateStorage, openAppDb, requestPersistentStorage } from './store';
 import { createApiClient } from './sync/api-client';
 import { newRecordId } from './sync/ids';
 import { createSyncEngine } from './sync/sync-engine';
@@ -21,11 +21,11 @@ async function boot() {
     newId: newRecordId,
     session: sessionStorage,
     prefs: localStorage,
+    storage: { persist: () => requestPersistentStorage(), estimate: () => estimateStorage() },
     defaultTheme: matchMedia('(prefers-color-scheme: dark)').matches ? 'dark' : 'light',
   });
   render(<App app={app} locale={navigator.language} />, document.getElementById('app')!);
   await app.start();
-  void requestPersistentStorage();
   // Background Sync wakes the page's sender (Chromium only); every browser also retries in the foreground.
   navigator.serviceWorker?.addEventListener('message', (e) => {
     if (e.data === 'plumbline:sync-now') void app.actions.syncNow();

@@ -37,6 +37,19 @@ export interface SyncView {
   readonly lastSuccessAt?: string;
   readonly lastError?: string;
   readonly progress?: { readonly pushed: number; readonly toPush: number; readonly pulled: number };
+  /** Server clock minus tablet clock, once known; `clockSkewed` when it is beyond the tolerance. */
+  readonly clockOffsetMs?: number;
+  readonly clockSkewed?: boolean;
+}
+
+/** What the sync details sheet shows besides the sync state. */
+export interface SyncDetails {
+  /** Records the server refused or found in conflict: kept on the tablet with the reason. */
+  readonly problems: readonly { readonly id: string; readonly kind: string; readonly state: string; readonly reason: string; readonly deviceSeq: number }[];
+  /** Whether the browser promised not to clear this site's storage (null: it cannot say). */
+  readonly persisted: boolean | null;
+  readonly usage?: number;
+  readonly quota?: number;
 }
 
 /** A rule fired when a sample was saved: the operator is asked what happened. */
@@ -67,6 +80,10 @@ export interface AppState {
   readonly error?: string;
   readonly now: number;
   readonly theme: 'light' | 'dark';
+  /** Open while the sync details sheet is shown. */
+  readonly syncDetails?: SyncDetails;
+  /** Storage persistence as granted at start (null until asked or where unsupported). */
+  readonly persisted: boolean | null;
 }
 
 export interface EntryInput {
@@ -104,5 +121,7 @@ export interface AppActions {
   setExcluded(characteristicId: string, sampleId: string, excluded: boolean, reason: string): Promise<boolean>;
   setTheme(theme: 'light' | 'dark'): void;
   syncNow(): Promise<void>;
+  openSyncDetails(): Promise<void>;
+  closeSyncDetails(): void;
   dismissToast(): void;
 }

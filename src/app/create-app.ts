@@ -9,6 +9,7 @@ import {
   getSetup,
   listSignedInPeople,
   resetSendingOnStart,
+  listOutboxProblems,
   saveDeviceRecord,
   saveSignedInPerson,
   getSignedInPerson,
@@ -39,7 +40,7 @@ import { snapshotSignals } from './snapshots';
 
 /** The sync engine as the app uses it. */
 export interface SyncPort {
-  syncNow(): Promise<unknown>;
+  syncNow(options?: { ignoreBackoff?: boolean }): Promise<unknown>;
   start(): void;
   stop(): void;
   getStatus(): SyncStatus;
@@ -62,6 +63,11 @@ export interface AppDeps {
   readonly newId: () => string;
   readonly session: SmallStorage;
   readonly prefs: SmallStorage;
+  /** Storage persistence and space (navigator.storage); absent in tests that do not need it. */
+  readonly storage?: {
+    persist(): Promise<boolean | null>;
+    estimate(): Promise<{ usage: number; quota: number; isNearlyFull: boolean } | null>;
+  };
   /** The theme before the person chooses one (e.g. from prefers-color-scheme). */
   readonly defaultTheme?: 'light' | 'dark';
 }
@@ -81,6 +87,7 @@ function syncView(s: SyncStatus): SyncView {
     ...(s.lastSuccessAt ? { lastSuccessAt: new Date(s.lastSuccessAt).toISOString() } : {}),
     ...(s.lastError ? { lastError: s.lastError } : {}),
     ...(s.progress ? { progress: s.progress } : {}),
+    ...(s.clockOffsetMs !== null ? { clockOffsetMs: s.clockOffsetMs, clockSkewed: s.isClockSkewed } : {}),
   };
 }
 
@@ -97,6 +104,7 @@ export function createPlumblineApp(deps: AppDeps) {
   let state: AppState = {
     stage: 'starting', signedIn: [], setup: EMPTY_SETUP, screen: { name: 'board' }, views: {},
     sync: { state: 'idle', pending: 0, rejected: 0 }, now: deps.now(),
+    persisted: null,
     theme: (deps.prefs.getItem('plumbline.theme') ?? deps.defaultTheme ?? 'light') === 'dark' ? 'dark' : 'light',
   };
   const listeners = new Set<() => void>();
@@ -200,9 +208,21 @@ export function createPlumblineApp(deps: AppDeps) {
     await refreshViews();
   }
 
+  /** Asks the browser to keep this site's data (sync.md §2.5) and warns when space runs short (§2.6). */
+  async function checkStorage() {
+    if (!deps.storage) return;
+    const persisted = await deps.storage.persist().catch(() => null);
+    const estimate = await deps.storage.estimate().catch(() => null);
+    set({ persisted });
+    if (estimate?.isNearlyFull) {
+      set({ error: `Storage on this tablet is nearly full (${Math.round((estimate.usage / estimate.quota) * 100)}% used). Sync now; new readings may not fit.` });
+    }
+  }
+
   async function start() {
     try {
       await resetSendingOnStart(db);
+      void checkStorage();
       identity = await getDeviceIdentity(db);
       if (!identity) return set({ stage: 'enrol' });
       set({ device: { deviceId: identity.deviceId, deviceName: identity.deviceName, siteId: identity.siteId } });
@@ -434,7 +454,21 @@ export function createPlumblineApp(deps: AppDeps) {
     },
 
     async syncNow() {
-      await sync?.syncNow();
+      await sync?.syncNow({ ignoreBackoff: true });
+      if (state.syncDetails) await actions.openSyncDetails();
+    },
+    async openSyncDetails() {
+      const [problems, estimate] = await Promise.all([listOutboxProblems(db), deps.storage?.estimate() ?? Promise.resolve(null)]);
+      set({
+        syncDetails: {
+          problems: problems.map((r) => ({ id: r.id, kind: r.kind, state: r.state, reason: r.lastError ?? '', deviceSeq: r.deviceSeq })),
+          persisted: state.persisted,
+          ...(estimate ? { usage: estimate.usage, quota: estimate.quota } : {}),
+        },
+      });
+    },
+    closeSyncDetails() {
+      set({ syncDetails: undefined });
     },
     dismissToast() {
       set({ toast: undefined });

@@ -5,6 +5,7 @@ import { EnrolScreen } from './EnrolScreen';
 import { SignalPromptSheet } from './SignalPromptSheet';
 import { SignInScreen } from './SignInScreen';
 import { SiteOverview } from './SiteOverview';
+import { SyncSheet } from './SyncSheet';
 import { StationBoard } from './StationBoard';
 import { TopBar } from './TopBar';
 import { useAppState, type AppHandle } from './use-app';
@@ -34,6 +35,7 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
       {state.stage === 'ready' && state.prompt && promptChar ? (
         <SignalPromptSheet prompt={state.prompt} characteristic={promptChar} siteCauses={site?.categories ?? []} actions={actions} />
       ) : null}
+      {state.syncDetails ? <SyncSheet state={state} details={state.syncDetails} actions={actions} /> : null}
       {state.toast ? <div class="toast" role="status" onClick={() => actions.dismissToast()}>{state.toast}</div> : null}
     </div>
   );

@@ -40,8 +40,8 @@ export function TopBar({ state, actions }: { state: AppState; actions: AppAction
       <button
         type="button"
         class={`pill ${sync.tone}`}
-        onClick={() => void actions.syncNow()}
-        title={state.sync.lastError ?? 'Send and fetch now'}
+        onClick={() => void actions.openSyncDetails()}
+        title="Sending and receiving: details and Sync now"
         data-testid="sync-pill"
       >
         <span class="dot" aria-hidden="true" />

@@ -10,7 +10,7 @@ import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_SITE_ID } from '../../src/server/demo/demo-site';
 import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite } from './site';
+import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite, syncNow } from './site';
 
 const run = browserAvailable();
 const SHOTS = resolve('test-results/screenshots');
@@ -76,7 +76,7 @@ describe.skipIf(!run)('a tablet offline: record, flag, answer, sync', () => {
     // Back online: the outbox drains and the server holds each record once.
     const before = await recordsOnServer(site.store);
     await tablet.setOffline(false);
-    await page.getByTestId('sync-pill').click();
+    await syncNow(page);
     await expect.poll(() => page.getByTestId('sync-pill').innerText(), { timeout: 20_000 }).toMatch(/All sent/);
     const after = await recordsOnServer(site.store);
     const added = [...after].filter(([id]) => !before.has(id));
@@ -86,7 +86,7 @@ describe.skipIf(!run)('a tablet offline: record, flag, answer, sync', () => {
     expect(kinds.map((k) => (k.kind === 'record' ? k.body.kind : k.kind)).sort()).toEqual(['response', 'sample']);
 
     // A second sync sends nothing again.
-    await page.getByTestId('sync-pill').click();
+    await syncNow(page);
     await page.waitForTimeout(500);
     expect((await recordsOnServer(site.store)).size).toBe(after.size);
 

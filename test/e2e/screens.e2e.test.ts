@@ -61,10 +61,20 @@ describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
 
     for (const theme of ['light', 'dark'] as const) {
       if (theme === 'dark') await page.getByTestId('theme-toggle').click();
+      const back = page.getByRole('button', { name: '← Station board' });
+      if (await back.count()) await back.click();
       await expect.poll(() => page.evaluate(() => document.documentElement.dataset.theme)).toBe(theme);
       problems.push(...(await check(page, `board-${theme}`)));
+      await page.getByTestId('sync-pill').click();
+      await page.getByTestId('sync-sheet').waitFor();
+      problems.push(...(await check(page, `sync-details-${theme}`)));
+      await page.getByTestId('sync-sheet').getByRole('button', { name: 'Close' }).click();
+      await page.getByTestId('open-overview').click();
+      await page.getByRole('heading', { name: 'Site overview' }).waitFor();
+      problems.push(...(await check(page, `site-overview-${theme}`)));
+      await page.getByRole('button', { name: 'Back to my station' }).click();
       for (const ch of DEMO_CHARACTERISTICS) {
-        await page.getByRole('button', { name: '← Station board' }).click().catch(() => undefined);
+        if (await back.count()) await back.click();
         const tile = page.getByTestId(`tile-${ch.id}`);
         if (!(await tile.count())) {
           // The characteristic lives at another station: pick each station until it shows.

@@ -6,7 +6,7 @@
 import type { BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite } from './site';
+import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite, syncNow } from './site';
 
 const run = browserAvailable();
 const HOURS = 8;
@@ -68,7 +68,7 @@ describe.skipIf(!run)('a shift offline, then synced and signed off', () => {
 
     // Reconnect: everything goes up exactly once.
     await operator.setOffline(false);
-    await page.getByTestId('sync-pill').click();
+    await syncNow(page);
     await expect.poll(() => page.getByTestId('sync-pill').innerText(), { timeout: 20_000 }).toMatch(/All sent/);
     const after = await recordsOnServer(site.store);
     const added = [...after].filter(([id]) => !before.has(id));
@@ -88,9 +88,9 @@ describe.skipIf(!run)('a shift offline, then synced and signed off', () => {
     await expect.poll(() => sup.getByTestId('sync-pill').innerText(), { timeout: 20_000 }).toMatch(/All sent/);
 
     // Back on the operator's tablet the sign-off arrives with the next pull.
-    await page.getByTestId('sync-pill').click();
+    await syncNow(page);
     await expect.poll(async () => {
-      await page.getByTestId('sync-pill').click();
+      await syncNow(page);
       return page.getByTestId('signal-history').locator('.signal-item', { hasText: 'Insert changed at 11:40' }).first().innerText();
     }, { timeout: 20_000 }).toContain('Signed off by Tomasz Wilk');
     expect(errors).toEqual([]);

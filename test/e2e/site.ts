@@ -63,3 +63,14 @@ export async function signIn(page: Page, login: string, pin: string): Promise<vo
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.locator('.tile').first().waitFor({ state: 'visible', timeout: 15_000 });
 }
+
+/** "Sync now" as a person does it: open the sync details from the status pill, press Sync now, close. */
+export async function syncNow(page: Page): Promise<void> {
+  await page.getByTestId('sync-pill').click();
+  const sheet = page.getByTestId('sync-sheet');
+  await sheet.waitFor();
+  await sheet.getByTestId('sync-now').click();
+  await sheet.getByTestId('sync-now').filter({ hasText: 'Sync now' }).waitFor({ timeout: 20_000 });
+  await sheet.getByRole('button', { name: 'Close' }).click();
+  await sheet.waitFor({ state: 'detached' });
+}

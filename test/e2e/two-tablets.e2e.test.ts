@@ -5,7 +5,7 @@
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite } from './site';
+import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite, syncNow } from './site';
 
 const run = browserAvailable();
 const EACH = 6;
@@ -72,7 +72,7 @@ describe.skipIf(!run)('two tablets offline at one station, one supervisor', () =
     // Back online at the same moment: both push, both pull.
     await tablets[0]!.setOffline(false);
     await tablets[1]!.setOffline(false);
-    await Promise.all([a!, b!].map((p) => p.getByTestId('sync-pill').click()));
+    await Promise.all([a!, b!].map((p) => syncNow(p)));
     for (const p of [a!, b!]) await expect.poll(() => p.getByTestId('sync-pill').innerText(), { timeout: 20_000 }).toMatch(/All sent/);
 
     const after = await recordsOnServer(site.store);
@@ -88,7 +88,7 @@ describe.skipIf(!run)('two tablets offline at one station, one supervisor', () =
     expect(new Set(held).size).toBe(held.length);
     for (const [id] of added) expect(held).toContain(id);
     // And each recording tablet now has the other's samples too.
-    await a!.getByTestId('sync-pill').click();
+    await syncNow(a!);
     await expect.poll(() => points(a!), { timeout: 10_000 }).toBe(start + 2 * EACH);
   });
 });
