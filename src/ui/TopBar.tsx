@@ -41,7 +41,7 @@ export function TopBar({ state, actions }: { state: AppState; actions: AppAction
         type="button"
         class={`pill ${sync.tone}`}
         onClick={() => void actions.openSyncDetails()}
-        title="Sending and receiving: details and Sync now"
+        title={state.sync.lastError ?? 'Sending and receiving: details and Sync now'}
         data-testid="sync-pill"
       >
         <span class="dot" aria-hidden="true" />

@@ -49,7 +49,7 @@ describe('TopBar', () => {
     expect(screen.getByTestId('sync-pill').textContent).toContain('4 waiting to send · no connection');
     expect(screen.getByTestId('sync-pill').className).toContain('waiting');
     fireEvent.click(screen.getByTestId('sync-pill'));
-    expect(actions.syncNow).toHaveBeenCalledTimes(1);
+    expect(actions.openSyncDetails).toHaveBeenCalledTimes(1);
     expect(screen.getByTestId('person-pill').textContent).toBe('Odile · operator');
     fireEvent.click(screen.getByTestId('person-pill'));
     expect(actions.signOut).toHaveBeenCalledTimes(1);
