@@ -8,12 +8,14 @@ import {
   getAcksForCharacteristic,
   getCurrentSamplesForCharacteristic,
   getDeviceIdentity,
+  getDeviceRecord,
   getOutboxRow,
   getResponsesForCharacteristic,
   getSignedInPerson,
 } from '../../src/store';
 import { verifyOffline } from '../../src/sync/offline-verifier';
 import { api, enrolDevice, signIn as serverSignIn, SITE } from '../server/fixtures';
+import { BASELINE } from './helpers';
 import { enrolled, fromAnotherTablet, HOUR, seedBaseline, signedIn, tablet, useServerPerTest, withSignal } from './tablet-harness';
 
 const server = useServerPerTest();
@@ -394,6 +396,63 @@ describe('people and navigation', () => {
     t.net.online = false;
     expect(await t.app.actions.signIn('ODILE', '1234')).toBe(true);
     expect(t.app.getState().person?.id).toBe('p-op');
+  });
+});
+
+describe('corrections and exclusions', () => {
+  it('correct() adds a sample that supersedes the original, in its place; the original stays on the tablet', async () => {
+    const t = await signedIn();
+    for (const v of [10, 10.2, 10.1]) {
+      t.clock.t += HOUR;
+      expect(await t.app.actions.record('ch-len', { values: [v] })).toBe(true);
+    }
+    const before = t.app.getState().views['ch-len']!.series;
+    const original = before.samples[1]!;
+    expect(await t.app.actions.correct('ch-len', original.id, { values: [10.02] }, '  Misread the gauge ')).toBe(true);
+    const after = t.app.getState().views['ch-len']!.series;
+    expect(after.samples.map((x) => x.values)).toEqual([[10], [10.02], [10.1]]);
+    const fix = after.samples[1]!;
+    expect(fix).toMatchObject({ supersedes: original.id, reason: 'Misread the gauge', takenAt: original.takenAt, recordedBy: 'p-op' });
+    expect(await getDeviceRecord(t.db, original.id)).toMatchObject({ values: [10.2] });
+    expect((await getOutboxRow(t.db, fix.id))?.kind).toBe('sample');
+    expect(t.app.getState().toast).toBe('The correction is saved on this tablet; the original stays in the record');
+    await t.settle();
+    expect((await getOutboxRow(t.db, fix.id))?.state).toBe('acked');
+  });
+
+  it('a correction needs a reason', async () => {
+    const t = await signedIn();
+    expect(await t.app.actions.record('ch-len', { values: [10] })).toBe(true);
+    const id = t.app.getState().views['ch-len']!.series.sampleIds[0]!;
+    expect(await t.app.actions.correct('ch-len', id, { values: [10.1] }, '   ')).toBe(false);
+    expect(t.app.getState().error).toBe('A correction needs a reason.');
+    expect(await getCurrentSamplesForCharacteristic(t.db, 'ch-len')).toHaveLength(1);
+  });
+
+  it('setExcluded() is for engineers and admins; an excluded point leaves the limits but stays on the chart', async () => {
+    const t = await enrolled();
+    await seedBaseline(t);
+    expect(await t.app.actions.signIn('odile', '1234')).toBe(true);
+    const first = t.app.getState().views['ch-len']!.series.sampleIds[1]!;
+    expect(await t.app.actions.setExcluded('ch-len', first, true, 'Setting-up part')).toBe(false);
+    expect(t.app.getState().error).toMatch(/Only a quality engineer/);
+
+    t.app.actions.addPerson();
+    expect(await t.app.actions.signIn('ada', '3456')).toBe(true);
+    expect(await t.app.actions.setExcluded('ch-len', first, true, '')).toBe(false);
+    expect(t.app.getState().error).toBe('Leaving a point out of the limits needs a reason.');
+    const centreBefore = t.app.getState().views['ch-len']!.analysis.phases[0]!.centre!;
+    expect(await t.app.actions.setExcluded('ch-len', first, true, 'Setting-up part')).toBe(true);
+    const view = t.app.getState().views['ch-len']!;
+    expect(view.analysis.points).toHaveLength(20);
+    expect(view.analysis.points[1]!.excluded).toBe(true);
+    expect(view.series.samples[1]).toMatchObject({ supersedes: first, excluded: true, reason: 'Setting-up part', values: [10.1] });
+    // The mean of the 19 included values (computed here), not of all 20.
+    const included = BASELINE.filter((_, i) => i !== 1);
+    expect(view.analysis.phases[0]!.centre).toBeCloseTo(included.reduce((a, b) => a + b, 0) / included.length, 10);
+    expect(view.analysis.phases[0]!.centre).not.toBeCloseTo(centreBefore, 6);
+    await t.settle();
+    expect((await getOutboxRow(t.db, view.series.sampleIds[1]!))?.state).toBe('acked'); // the server takes it from an admin
   });
 });
 

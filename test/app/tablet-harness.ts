@@ -147,7 +147,7 @@ export async function seedBaseline(t: Tablet): Promise<string[]> {
     await saveDeviceRecord(t.db, {
       kind: 'sample', id, characteristicId: 'ch-len', takenAt: new Date(t.clock.t - (20 - i) * HOUR).toISOString(),
       recordedBy: 'p-op', deviceId, values: [v],
-    });
+    }, t.clock.t); // the outbox row is due by the tablet's clock, as the app's own saves are
     saved.push(id);
   }
   await t.app.actions.syncNow();
