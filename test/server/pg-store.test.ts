@@ -44,7 +44,20 @@ async function until(what: string, check: () => Promise<boolean>): Promise<void>
 class Puller {
   cursor = 0;
   readonly seen: number[] = [];
+  private looping: Promise<void> | undefined;
+  private stopped = false;
   constructor(private readonly read: (after: number, limit: number) => Promise<number[]>) {}
+  /** Pulls in a tight loop until stop(). */
+  start(): this {
+    this.looping = (async () => {
+      while (!this.stopped) await this.pull();
+    })();
+    return this;
+  }
+  async stop(): Promise<void> {
+    this.stopped = true;
+    await this.looping;
+  }
   async pull(): Promise<void> {
     for (;;) {
       const page = await this.read(this.cursor, 3);
@@ -59,6 +72,7 @@ describe.skipIf(!run)('PgStore', () => {
   let schema: { name: string; drop: () => Promise<void> };
   let store: PgStore;
   let side: pg.Client;
+  let looping: Puller[] = [];
   const url = () => requireDatabaseUrl();
   const appName = () => `plumbline-test-${schema.name}`;
   beforeEach(async () => {
@@ -67,6 +81,8 @@ describe.skipIf(!run)('PgStore', () => {
     side = await schemaClient(schema.name);
   });
   afterEach(async () => {
+    await Promise.allSettled(looping.map((p) => p.stop())); // a failed test may leave its loop running
+    looping = [];
     await side.end();
     await store.close();
     await schema.drop();
@@ -132,7 +148,7 @@ describe.skipIf(!run)('PgStore', () => {
     expect((await store.insertRecords([item()], T))[0]?.serverSeq).toBe(1);
   });
 
-  it('hands back the number of a repeat inside a batch, so the sequence has no gap', async () => {
+  it('gives a repeat inside a batch no number of its own, so the sequence has no gap', async () => {
     const a = makeSample('dev-1');
     const out = await store.insertRecords([item(a), item(a), item({ ...a, values: [99] }), item()], T);
     expect(out.map((o) => [o.status, o.serverSeq])).toEqual([['stored', 1], ['duplicate', 1], ['conflict', 1], ['stored', 2]]);
@@ -176,10 +192,7 @@ describe.skipIf(!run)('PgStore', () => {
       const slow = makeSample('dev-1');
       await side.query(`INSERT INTO gated_ids (id) VALUES ($1)`, [slow.id]);
       const puller = new Puller(pullSeqs);
-      let done = false;
-      const loop = (async () => {
-        while (!done) await puller.pull();
-      })();
+      looping.push(puller.start());
 
       const first = store.insertRecords([item(slow)], T); // takes 3, then waits at the gate
       await until('the first push waits at the gate', async () => (await gateWaiters()) === 1);
@@ -193,8 +206,7 @@ describe.skipIf(!run)('PgStore', () => {
       const whileFirstOpen = [...puller.seen];
       await openGate();
       const [a, b] = await Promise.all([first, second]);
-      done = true;
-      await loop;
+      await puller.stop();
       await puller.pull();
 
       // Union of pulls == every row, each once, in order, no gaps.
@@ -237,7 +249,7 @@ describe.skipIf(!run)('PgStore', () => {
       }
     });
 
-    it('a record pushed by two transactions at once is stored once; the second gets duplicate and hands its number back', async () => {
+    it('stores a record pushed by two transactions at once once: the second waits, then answers duplicate and uses no number', async () => {
       const x = makeSample('dev-1');
       await side.query(`INSERT INTO gated_ids (id) VALUES ($1)`, [x.id]);
       const first = store.insertRecords([item(x)], T);
@@ -254,10 +266,7 @@ describe.skipIf(!run)('PgStore', () => {
 
   it('under concurrent pushers (with repeats) a pull loop still sees every row once, in order, with no gap', async () => {
     const puller = new Puller(pullSeqs);
-    let done = false;
-    const loop = (async () => {
-      while (!done) await puller.pull();
-    })();
+    looping.push(puller.start());
     const stored = new Set<number>();
     await Promise.all(
       Array.from({ length: 6 }, async () => {
@@ -271,8 +280,7 @@ describe.skipIf(!run)('PgStore', () => {
         }
       }),
     );
-    done = true;
-    await loop;
+    await puller.stop();
     await puller.pull();
     const n = 6 * 8 * 4;
     expect(stored.size).toBe(n);

@@ -265,43 +265,75 @@ export class PgStore implements ServerStore {
   }
 
   /**
-   * One transaction per batch. Per item: take the next serverSeq from the counter row (its row lock
-   * is held to COMMIT, so writers that assign numbers run one after another and commit order equals
-   * sequence order, sync.md §3.6), then `INSERT … ON CONFLICT (id) DO NOTHING` the record and its log
-   * row in one statement. When the id is already there (committed earlier, or earlier in this batch),
-   * the number is handed back — safe because no other writer can have taken one while we hold the
-   * lock — and the stored row decides between duplicate and conflict.
+   * One transaction per batch, a fixed number of statements whatever its size:
+   * 1. lock the counter row (`SELECT … FOR UPDATE`). Every writer that assigns serverSeqs takes this
+   *    row lock first and keeps it to COMMIT, so writers take numbers one after another and commit
+   *    order equals sequence order: a pull cursor can never pass a number that commits later
+   *    (sync.md §1 PostgreSQL caveats, §3.6);
+   * 2. read which ids are already stored (a record is immutable, so a stored one decides between
+   *    duplicate and conflict); a repeat inside the batch is judged against its first occurrence;
+   * 3. insert the new records (`INSERT … ON CONFLICT (id) DO NOTHING`) and their log rows with the
+   *    next numbers in batch order, in one statement;
+   * 4. `UPDATE counters SET value = value + k RETURNING value` for the k numbers used.
+   * Repeats take no number, so the sequence has no gaps.
    */
   async insertRecords(items: readonly RecordToInsert[], serverTime: string): Promise<InsertOutcome[]> {
+    if (items.length === 0) return [];
     return inTransaction(this.pool, async (c) => {
-      const outcomes: InsertOutcome[] = [];
-      for (const item of items) {
+      const locked = await c.query<{ value: string }>(`SELECT value FROM counters WHERE name = 'log' FOR UPDATE`);
+      if (locked.rows[0] === undefined) throw new Error('The counters table has no "log" row.');
+      const base = Number(locked.rows[0].value);
+
+      const ids = [...new Set(items.map((i) => i.record.id))];
+      const { rows } = await c.query<{ id: string; server_seq: string; content_hash: string }>(
+        `SELECT id, server_seq, content_hash FROM device_records WHERE id = ANY($1::text[])`,
+        [ids],
+      );
+      const known = new Map(rows.map((r) => [r.id, { serverSeq: Number(r.server_seq), contentHash: r.content_hash }]));
+
+      const fresh: { item: RecordToInsert; serverSeq: number }[] = [];
+      const outcomes = items.map((item): InsertOutcome => {
         const id = item.record.id;
-        const seq = await nextSeq(c);
-        const inserted = await c.query(
-          `WITH r AS (
-             INSERT INTO device_records (id, server_seq, content_hash) VALUES ($1, $2, $3)
-             ON CONFLICT (id) DO NOTHING
-             RETURNING server_seq
-           )
-           INSERT INTO log (server_seq, server_time, site_id, entry_kind, entity_id, body, content_hash, device_id, person_id, client_time)
-           SELECT r.server_seq, $4, $5, 'record', $1, $6, $3, $7, $8, $9 FROM r`,
-          [id, seq, item.contentHash, serverTime, item.siteId, JSON.stringify(item.record), item.deviceId, item.personId, item.clientTime],
-        );
-        if (inserted.rowCount === 1) {
-          outcomes.push({ id, status: 'stored', serverSeq: seq });
-          continue;
-        }
-        await c.query(`UPDATE counters SET value = value - 1 WHERE name = 'log'`);
-        const { rows } = await c.query<{ server_seq: string; content_hash: string }>(
-          `SELECT server_seq, content_hash FROM device_records WHERE id = $1`,
-          [id],
-        );
-        const existing = rows[0];
-        if (!existing) throw new Error(`Record ${id} conflicted on insert but cannot be read back.`);
-        const status = existing.content_hash === item.contentHash ? 'duplicate' : 'conflict';
-        outcomes.push({ id, status, serverSeq: Number(existing.server_seq) });
-      }
+        const stored = known.get(id);
+        if (stored) return { id, status: stored.contentHash === item.contentHash ? 'duplicate' : 'conflict', serverSeq: stored.serverSeq };
+        const serverSeq = base + fresh.length + 1;
+        fresh.push({ item, serverSeq });
+        known.set(id, { serverSeq, contentHash: item.contentHash });
+        return { id, status: 'stored', serverSeq };
+      });
+      if (fresh.length === 0) return outcomes;
+
+      const column = <T>(f: (x: (typeof fresh)[number]) => T): T[] => fresh.map(f);
+      const inserted = await c.query(
+        `WITH input AS (
+           SELECT * FROM unnest($1::text[], $2::bigint[], $3::text[], $4::text[], $5::text[], $6::text[], $7::text[], $8::text[])
+             AS t (id, server_seq, content_hash, site_id, body, device_id, person_id, client_time)
+         ), r AS (
+           INSERT INTO device_records (id, server_seq, content_hash)
+           SELECT id, server_seq, content_hash FROM input
+           ON CONFLICT (id) DO NOTHING
+           RETURNING id
+         )
+         INSERT INTO log (server_seq, server_time, site_id, entry_kind, entity_id, body, content_hash, device_id, person_id, client_time)
+         SELECT i.server_seq, $9, i.site_id, 'record', i.id, i.body, i.content_hash, i.device_id, i.person_id, i.client_time
+         FROM input i JOIN r ON r.id = i.id
+         ORDER BY i.server_seq`,
+        [
+          column((f) => f.item.record.id),
+          column((f) => f.serverSeq),
+          column((f) => f.item.contentHash),
+          column((f) => f.item.siteId),
+          column((f) => JSON.stringify(f.item.record)),
+          column((f) => f.item.deviceId),
+          column((f) => f.item.personId),
+          column((f) => f.item.clientTime),
+          serverTime,
+        ],
+      );
+      // Cannot happen while every writer holds the counter lock; if it does, roll the batch back.
+      if (inserted.rowCount !== fresh.length) throw new Error(`Stored ${inserted.rowCount} of ${fresh.length} new records: an id was inserted outside the counter lock.`);
+      const after = await c.query<{ value: string }>(`UPDATE counters SET value = value + $1 WHERE name = 'log' RETURNING value`, [fresh.length]);
+      if (Number(after.rows[0]?.value) !== base + fresh.length) throw new Error('The log counter moved while its row was locked.');
       return outcomes;
     });
   }
