@@ -28,18 +28,19 @@ function isSorted(samples: readonly Sample[]): boolean {
 }
 
 function toSubgroup(ch: Characteristic, s: Sample): SubgroupInput {
-  const excluded = s.excluded === true;
+  // The reason an engineer gave for leaving the point out travels with it to the chart.
+  const excluded = s.excluded === true ? (s.reason ? { excluded: true, exclusionReason: s.reason } : { excluded: true }) : { excluded: false };
   switch (ch.chartType) {
     case 'xmr':
     case 'xbar-r':
     case 'xbar-s':
     case 'ewma':
     case 'cusum':
-      return { values: s.values ?? [], excluded };
+      return { values: s.values ?? [], ...excluded };
     case 'c':
-      return { count: s.count ?? 0, excluded };
+      return { count: s.count ?? 0, ...excluded };
     default: // p, np, u: count over the inspected quantity
-      return { count: s.count ?? 0, size: s.inspected ?? ch.subgroupSize, excluded };
+      return { count: s.count ?? 0, size: s.inspected ?? ch.subgroupSize, ...excluded };
   }
 }
 

@@ -139,12 +139,12 @@ describe('buildChartSeries: corrections and exclusions', () => {
     expect(series.sampleIds).toEqual([a!.id, fix.id, c!.id]);
   });
 
-  it('marks excluded samples as excluded subgroups (still plotted)', () => {
+  it('marks excluded samples as excluded subgroups (still plotted), with the reason', () => {
     const [a, b] = individuals([10, 10.4]);
     const series = buildChartSeries(ch, [], [a!, { ...b!, excluded: true, reason: 'Gauge dropped' }]);
     expect(series.input.subgroups).toEqual([
       { values: [10], excluded: false },
-      { values: [10.4], excluded: true },
+      { values: [10.4], excluded: true, exclusionReason: 'Gauge dropped' },
     ]);
   });
 
