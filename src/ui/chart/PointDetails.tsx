@@ -34,7 +34,8 @@ export function PointDetails({ view, index, state, actions, onClose }: {
       return;
     }
     const parts = text.trim().split(/\s+/);
-    const parsed = parts.map((t) => parseEntry(t, variable ? ch.decimals : 2));
+    // As in the entry panel: counts are whole; only a u chart's units inspected may have decimals.
+    const parsed = parts.map((t, i) => parseEntry(t, variable ? ch.decimals : i === 1 && ch.chartType === 'u' ? 2 : 0));
     const bad = parsed.find((p) => !p.ok);
     if (bad && !bad.ok) return setProblem(bad.message);
     const nums = parsed.map((p) => (p.ok ? p.value : 0));
