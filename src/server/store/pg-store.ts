@@ -44,8 +44,11 @@ export async function openPgStore(connectionString: string, options: PgStoreOpti
     if (!SCHEMA_NAME.test(options.schema)) throw new Error(`PostgreSQL schema name "${options.schema}" must be lower-case letters, digits and _.`);
     settings.push(`-c search_path=${options.schema}`);
   }
+  // pg lets an `options` parameter in the URL replace the one given here; keep both instead.
+  const { url, urlOptions } = takeUrlOptions(connectionString);
+  if (urlOptions) settings.unshift(urlOptions);
   const pool = new pg.Pool({
-    connectionString,
+    connectionString: url,
     max: options.max ?? 10,
     application_name: options.applicationName ?? 'plumbline',
     options: settings.join(' '),
@@ -60,6 +63,20 @@ export async function openPgStore(connectionString: string, options: PgStoreOpti
     throw error;
   }
   return new PgStore(pool);
+}
+
+/** Splits `?options=…` off a connection URL (URLs the WHATWG parser rejects are left as they are). */
+function takeUrlOptions(connectionString: string): { url: string; urlOptions: string | undefined } {
+  let parsed: URL;
+  try {
+    parsed = new URL(connectionString);
+  } catch {
+    return { url: connectionString, urlOptions: undefined };
+  }
+  const urlOptions = parsed.searchParams.get('options') ?? undefined;
+  if (urlOptions === undefined) return { url: connectionString, urlOptions };
+  parsed.searchParams.delete('options');
+  return { url: parsed.toString(), urlOptions };
 }
 
 /**

@@ -45,8 +45,8 @@ export interface ServerStore {
    * new id → 'stored' with a fresh serverSeq; same id and same content hash → 'duplicate' with the
    * stored serverSeq; same id, different content → 'conflict' (the stored record is kept).
    * The SQLite store reads then inserts, which is safe because SQLite has one writer at a time;
-   * a PostgreSQL store must use `INSERT … ON CONFLICT (id) DO NOTHING` and assign serverSeq from
-   * the counter row (`UPDATE counters … RETURNING`) so that sequence order is commit order.
+   * the PostgreSQL store uses `INSERT … ON CONFLICT (id) DO NOTHING` and assigns serverSeq from
+   * the counter row, locked until COMMIT, so that sequence order is commit order.
    */
   insertRecords(items: readonly RecordToInsert[], serverTime: string): Promise<InsertOutcome[]>;
 
