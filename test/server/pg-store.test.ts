@@ -129,6 +129,11 @@ describe.skipIf(!run)('PgStore', () => {
     });
   });
 
+  it('refuses a schema that does not exist, or a name that could not be one, by name', async () => {
+    await expect(openPgStore(url(), { schema: 't_missing_schema' })).rejects.toThrow('PostgreSQL schema "t_missing_schema" does not exist');
+    await expect(openPgStore(url(), { schema: 'x; DROP TABLE log' })).rejects.toThrow(/must be lower-case letters/);
+  });
+
   it('works in its own schema with synchronous_commit=on, whatever the server default', async () => {
     const { rows } = await store.pool.query<{ sc: string; sp: string }>(`SELECT current_setting('synchronous_commit') AS sc, current_schema() AS sp`);
     expect(rows[0]).toEqual({ sc: 'on', sp: schema.name });

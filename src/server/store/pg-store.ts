@@ -56,6 +56,10 @@ export async function openPgStore(connectionString: string, options: PgStoreOpti
   // An idle connection that breaks (server restart, network) must not crash the process; the pool drops it.
   pool.on('error', (error) => console.error(`PostgreSQL connection lost: ${error.message}`));
   try {
+    if (options.schema !== undefined) {
+      const { rowCount } = await pool.query(`SELECT 1 FROM pg_namespace WHERE nspname = $1`, [options.schema]);
+      if (rowCount === 0) throw new Error(`PostgreSQL schema "${options.schema}" does not exist; create it first (CREATE SCHEMA ${options.schema}).`);
+    }
     await applyPgMigrations(pool, MIGRATIONS);
     await pool.query(`INSERT INTO meta (key, value) VALUES ('server_epoch', $1) ON CONFLICT (key) DO NOTHING`, [randomBytes(12).toString('base64url')]);
   } catch (error) {
