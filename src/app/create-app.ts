@@ -425,6 +425,13 @@ export function createPlumblineApp(deps: AppDeps) {
         set({ error: 'A correction needs a reason.' });
         return false;
       }
+      const problem = entryProblem(view!.characteristic, {
+        values: entry.values ?? original.values, count: entry.count ?? original.count, inspected: entry.inspected ?? original.inspected,
+      });
+      if (problem) {
+        set({ error: `The correction was NOT saved: ${problem}` });
+        return false;
+      }
       return saveSupersedingSample(characteristicId, original, {
         ...(entry.values ? { values: [...entry.values] } : {}),
         ...(entry.count !== undefined ? { count: entry.count } : {}),

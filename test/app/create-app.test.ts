@@ -429,6 +429,16 @@ describe('corrections and exclusions', () => {
     expect(await getCurrentSamplesForCharacteristic(t.db, 'ch-len')).toHaveLength(1);
   });
 
+  it('a correction that does not fit the chart is refused like a new entry', async () => {
+    const t = await signedIn();
+    expect(await t.app.actions.record('ch-def', { count: 3, inspected: 100 })).toBe(true);
+    const id = t.app.getState().views['ch-def']!.series.sampleIds[0]!;
+    expect(await t.app.actions.correct('ch-def', id, { count: 130 }, 'Recounted')).toBe(false);
+    expect(t.app.getState().error).toBe('The correction was NOT saved: More nonconforming items (130) than items inspected (100).');
+    expect(await t.app.actions.correct('ch-def', id, { count: 4 }, 'Recounted')).toBe(true);
+    expect(t.app.getState().views['ch-def']!.series.samples[0]).toMatchObject({ count: 4, inspected: 100, supersedes: id });
+  });
+
   it('setExcluded() is for engineers and admins; an excluded point leaves the limits but stays on the chart', async () => {
     const t = await enrolled();
     await seedBaseline(t);
