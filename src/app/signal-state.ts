@@ -1,3 +1,4 @@
+import { continuesEarlierEpisode, episodeStarts } from '../engine';
 import type { Analysis, Signal } from '../engine/types';
 import type { Acknowledgement, Response } from '../schema';
 
@@ -7,6 +8,9 @@ export type SignalState = 'unanswered' | 'answered' | 'closed';
 export interface SignalGroup {
   readonly sampleId: string;
   readonly index: number;
+  /** The last point at which the pattern was still firing (index when it fired once). */
+  readonly lastIndex: number;
+  /** The signals that began at this point (continuations at later points are not repeated). */
   readonly signals: readonly Signal[];
   readonly response?: Response;
   readonly ack?: Acknowledgement;
@@ -23,14 +27,21 @@ export function groupSignals(
   responses: readonly Response[],
   acks: readonly Acknowledgement[],
 ): SignalGroup[] {
+  // A pattern that goes on firing point after point is one event: group it under the point where it began.
+  const starts = episodeStarts(analysis.signals);
   const bySample = new Map<string, Signal[]>();
-  for (const s of analysis.signals) {
-    const id = sampleIds[s.index];
-    if (!id) continue;
-    const list = bySample.get(id) ?? [];
-    list.push(s);
-    bySample.set(id, list);
-  }
+  const lastBySample = new Map<string, number>();
+  analysis.signals.forEach((s, i) => {
+    const start = starts[i]!;
+    const id = sampleIds[start];
+    if (!id) return;
+    if (start === s.index) {
+      const list = bySample.get(id) ?? [];
+      list.push(s);
+      bySample.set(id, list);
+    }
+    lastBySample.set(id, Math.max(lastBySample.get(id) ?? start, s.index));
+  });
   const responseBySample = new Map<string, Response>();
   for (const r of responses) {
     const prev = responseBySample.get(r.sampleId);
@@ -42,7 +53,8 @@ export function groupSignals(
     const response = responseBySample.get(sampleId);
     const ack = response ? ackByResponse.get(response.id) : undefined;
     const state: SignalState = !response ? 'unanswered' : ack ? 'closed' : 'answered';
-    groups.push({ sampleId, index: signals[0]!.index, signals, state, ...(response ? { response } : {}), ...(ack ? { ack } : {}) });
+    const index = signals[0]!.index;
+    groups.push({ sampleId, index, lastIndex: lastBySample.get(sampleId) ?? index, signals, state, ...(response ? { response } : {}), ...(ack ? { ack } : {}) });
   }
   return groups.sort((a, b) => b.index - a.index);
 }
@@ -50,7 +62,8 @@ export function groupSignals(
 /** Signals that fired at the newest point only: what a save should prompt for. */
 export function signalsAtNewest(analysis: Analysis): Signal[] {
   const last = analysis.points.length - 1;
-  return analysis.signals.filter((s) => s.index === last);
+  const continuing = continuesEarlierEpisode(analysis.signals);
+  return analysis.signals.filter((s, i) => s.index === last && !continuing[i]);
 }
 
 /**

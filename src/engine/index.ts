@@ -8,3 +8,4 @@ export { andersonDarling } from './anderson-darling';
 export { bissellInterval, capabilityIndices, chiSquareInterval, cpm, expectedPpm } from './capability-indices';
 export { ALL_RULES } from './rules';
 export type * from './types';
+export { episodeStarts, continuesEarlierEpisode } from './episodes';

@@ -22,6 +22,7 @@ export function SignalHistory({ view, state, actions }: { view: CharacteristicVi
               </span>
             </div>
             {g.signals.map((s) => <span key={s.rule}>{s.explanation} <span class="hint">({ruleName(s.rule)})</span></span>)}
+            {g.lastIndex > g.index ? <span class="hint">The pattern went on firing up to point {g.lastIndex + 1}.</span> : null}
             {g.response ? (
               <span class="hint">
                 {g.response.whatHappened} · <strong>{g.response.causeCategory}</strong>{g.response.cause ? `: ${g.response.cause}` : ''} · Action: {g.response.action} ·{' '}

@@ -31,10 +31,12 @@ describe('SignalHistory', () => {
   it('lists the signals newest first with their state in words', () => {
     render(<SignalHistory view={view} state={stateFor(people[0]!)} actions={fakeActions()} />);
     const list = items();
-    expect(list.map((li) => li.querySelector('strong')!.textContent!.split(' · ')[0])).toEqual(['Point 25', 'Point 24', 'Point 23', 'Point 22', 'Point 21']);
-    expect(list.map((li) => li.querySelector('.chip')!.textContent)).toEqual(['Needs an answer', 'Needs an answer', 'Awaiting sign-off', 'Needs an answer', 'Signed off']);
-    expect(list[2]!.textContent).toContain('Bar stock changed · Material: New supplier · Action: Quarantined the lot · Odile');
-    expect(list[4]!.textContent).toContain('Signed off by Sven');
+    // The moving range fires at 21, 22, 23, 24 and 25 in a row: one event, listed where it began (point 21).
+    expect(list.map((li) => li.querySelector('strong')!.textContent!.split(' · ')[0])).toEqual(['Point 25', 'Point 23', 'Point 21']);
+    expect(list.map((li) => li.querySelector('.chip')!.textContent)).toEqual(['Needs an answer', 'Awaiting sign-off', 'Signed off']);
+    expect(list[1]!.textContent).toContain('Bar stock changed · Material: New supplier · Action: Quarantined the lot · Odile');
+    expect(list[2]!.textContent).toContain('Signed off by Sven');
+    expect(list[2]!.textContent).toContain('The pattern went on firing up to point 25.');
   });
 
   it('“Answer now” reopens the prompt for that sample', () => {

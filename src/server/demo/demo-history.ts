@@ -1,6 +1,6 @@
-import { analyze, type Analysis, type AnalysisInput, type ChartKind, type RuleCode, type Signal, type SubgroupInput } from '../../engine/index';
-import { RuleId, type Acknowledgement, type Characteristic, type Response, type Sample, type SignalSnapshot } from '../../schema/index';
-import { DEMO_CHARACTERISTICS, DEMO_DEVICE_ID, DEMO_HISTORY_DAYS, demoPhaseId } from './demo-site';
+import { analyze, continuesEarlierEpisode, type Analysis, type AnalysisInput, type ChartKind, type RuleCode, type Signal, type SubgroupInput } from '../../engine/index';
+import { SignalRuleId, type Acknowledgement, type Characteristic, type Response, type Sample, type SignalSnapshot } from '../../schema/index';
+import { DEMO_CHARACTERISTICS, DEMO_DEVICE_ID, DEMO_GIVEN_LIMITS, DEMO_HISTORY_DAYS, demoPhaseId } from './demo-site';
 import { BLEMISH_BURST, MODELS, TORQUE_OUTLIER, type ProcessModel, type Story } from './demo-process';
 import { binomial, integerBetween, mulberry32, normal, poisson, seededUuidV7, type Random } from './prng';
 
@@ -90,7 +90,9 @@ export function buildDemoHistory(now: Date, seed = DEMO_SEED): DemoHistory {
     if (!analysis) return;
 
     const openFrom = end - OPEN_WINDOW_HOURS * HOUR;
-    for (const [index, fired] of groupByIndex(analysis.signals)) {
+    // A pattern firing point after point is one event: answer it where it began.
+    const continuing = continuesEarlierEpisode(analysis.signals);
+    for (const [index, fired] of groupByIndex(analysis.signals.filter((_, i) => !continuing[i]))) {
       const sample = chSamples[index];
       if (!sample) continue;
       const snapshots = fired.map((s) => snapshotOf(s, analysis, chSamples, c.id)).filter((s): s is SignalSnapshot => s !== undefined);
@@ -178,9 +180,11 @@ function run(c: Characteristic, subgroups: readonly SubgroupInput[], warnings: s
   const input: AnalysisInput = {
     chart: c.chartType as ChartKind,
     subgroups,
-    phases: [{ start: 0, baselineCount: c.baselineSize }],
+    phases: [DEMO_GIVEN_LIMITS[c.id] ? { start: 0, given: DEMO_GIVEN_LIMITS[c.id]! } : { start: 0, baselineCount: c.baselineSize }],
     rules: c.rules as readonly RuleCode[],
     spec: c.spec,
+    ...(c.ewma ? { ewma: c.ewma } : {}),
+    ...(c.cusum ? { cusum: c.cusum } : {}),
   };
   try {
     return analyze(input);
@@ -205,10 +209,11 @@ function groupByIndex(signals: readonly Signal[]): Map<number, Signal[]> {
 
 /** What fired, frozen with the limits at that point; undefined when the engine gave no limits. */
 function snapshotOf(signal: Signal, analysis: Analysis, samples: readonly Sample[], characteristicId: string): SignalSnapshot | undefined {
-  const rule = RuleId.options.find((r) => r === signal.rule);
+  const rule = SignalRuleId.options.find((r) => r === signal.rule);
   const point = analysis.points[signal.index];
   const limits = signal.companion ? point?.companion : point;
-  if (!rule || !limits || limits.centre === null || limits.ucl === null || limits.lcl === null) return undefined;
+  // CUSUM points carry no ucl/lcl (their decision interval is on the sums): snapshots keep nulls then.
+  if (!rule || !limits || (limits.centre === null && signal.rule !== 'cusum')) return undefined;
   return {
     rule,
     explanation: (signal.companion ? `Spread chart: ${signal.explanation}` : signal.explanation).slice(0, 300),

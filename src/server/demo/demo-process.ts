@@ -50,6 +50,36 @@ export const MODELS: Readonly<Record<string, ProcessModel>> = {
       },
     },
   },
+  // A small sustained drift of the viscosity after a new drum: about 0.8 sigma, the kind EWMA is for.
+  'sealant-viscosity': {
+    mean: 42.0,
+    sigma: 0.9,
+    effect: {
+      from: 150,
+      at: () => 0.75,
+      story: {
+        whatHappened: 'Viscosity readings drifted slightly high after the drum change; each reading was within the usual spread.',
+        causeCategory: 'Material',
+        cause: 'New drum from a different batch, stiffer than the last',
+        action: 'Checked the drum batch against the shift sheet and raised the drum heater by 2 °C on the engineer\'s instruction.',
+      },
+    },
+  },
+  // A one-sigma fall of the oven temperature when a burner nozzle partly clogged: CUSUM catches it.
+  'cure-temp': {
+    mean: 180.0,
+    sigma: 0.7,
+    effect: {
+      from: 330,
+      at: () => -0.8,
+      story: {
+        whatHappened: 'Oven temperature ran a little low for several hours; no single reading was out of the ordinary.',
+        causeCategory: 'Machine',
+        cause: 'Burner nozzle partly clogged',
+        action: 'Compared the display with the reference thermocouple, cleaned the burner nozzle; held panels released by the engineer after a cure test.',
+      },
+    },
+  },
   'coating-blemish': { mean: 3.2, sigma: 0 },
   'leak-fail': { mean: 0.04, sigma: 0 },
 };

@@ -128,7 +128,57 @@ export const DEMO_CHARACTERISTICS: readonly Characteristic[] = [
     safetyCritical: false,
     baselineSize: 20,
   },
+  {
+    // EWMA for a small sustained drift that a Shewhart chart would take long to see.
+    id: 'sealant-viscosity',
+    stationId: 'st-filling',
+    name: 'Sealant viscosity at the filler',
+    unit: 'Pa·s',
+    decimals: 1,
+    chartType: 'ewma',
+    subgroupSize: 1,
+    intervalMinutes: 120,
+    spec: { lsl: 38.0, usl: 46.0, target: 42.0 },
+    rules: [],
+    reactionPlan: [
+      'Read the drum batch number and check it against the shift sheet.',
+      'Check the sealant temperature at the drum heater.',
+      'Take a cup sample to the lab for a second reading.',
+      'Ask the engineer before changing the heater setting.',
+    ],
+    causeCategories: causes,
+    safetyCritical: false,
+    baselineSize: 25,
+    ewma: { lambda: 0.2, L: 2.962 },
+  },
+  {
+    // Tabular CUSUM on the oven temperature, read once an hour.
+    id: 'cure-temp',
+    stationId: 'st-finish',
+    name: 'Cure oven temperature',
+    unit: '°C',
+    decimals: 1,
+    chartType: 'cusum',
+    subgroupSize: 1,
+    intervalMinutes: 60,
+    spec: { lsl: 176.0, usl: 184.0, target: 180.0 },
+    rules: [],
+    reactionPlan: [
+      'Compare the oven display with the reference thermocouple.',
+      'Check the burner and the air circulation fan.',
+      'Hold the panels cured since the shift began until the engineer decides.',
+    ],
+    causeCategories: causes,
+    safetyCritical: false,
+    baselineSize: 25,
+    cusum: { k: 0.5, h: 5 },
+  },
 ];
+
+/** Characteristics whose first phase uses limits given from an earlier study rather than a baseline. */
+export const DEMO_GIVEN_LIMITS: Readonly<Record<string, { centre: number; sigma: number }>> = {
+  'cure-temp': { centre: 180.0, sigma: 0.7 },
+};
 
 /** The demo set-up as log entries, parents before children; phases start with the history. */
 export function demoSetupRecords(historyStart: Date): SetupRecord[] {
@@ -145,7 +195,12 @@ export function demoSetupRecords(historyStart: Date): SetupRecord[] {
     ...DEMO_CHARACTERISTICS.map((c): SetupRecord => ({
       kind: 'phase',
       id: demoPhaseId(c.id),
-      body: { id: demoPhaseId(c.id), characteristicId: c.id, number: 1, startsAt: historyStart.toISOString(), reason: 'First study after the station was commissioned.' },
+      body: {
+        id: demoPhaseId(c.id), characteristicId: c.id, number: 1, startsAt: historyStart.toISOString(),
+        ...(DEMO_GIVEN_LIMITS[c.id]
+          ? { reason: 'Limits carried over from the oven qualification study.', given: DEMO_GIVEN_LIMITS[c.id]! }
+          : { reason: 'First study after the station was commissioned.' }),
+      },
     })),
     ...DEMO_PEOPLE.map(({ pin: _pin, ...person }): SetupRecord => ({ kind: 'person', id: person.id, body: person })),
     { kind: 'causes', id: `${site}-causes`, body: { siteId: site, categories: causes } },

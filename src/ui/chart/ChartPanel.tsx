@@ -41,7 +41,8 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
     [analysis, from, to],
   );
   const onCompanion = (s: { companion?: boolean; side?: string }) => s.companion === true || (isCusum && s.side === 'below');
-  const openAt = new Set(view.groups.filter((g) => g.state === 'unanswered').map((g) => g.index));
+  const openAt = new Set<number>();
+  for (const g of view.groups) if (g.state === 'unanswered') for (let i = g.index; i <= g.lastIndex; i++) openAt.add(i);
   const flagsFor = (onThisChart: (s: { companion?: boolean; side?: string }) => boolean): PlotFlag[] => {
     const byIndex = new Map<number, string[]>();
     for (const s of analysis.signals) {
