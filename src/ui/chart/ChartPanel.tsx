@@ -60,7 +60,8 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
     () => analysis.phases.filter((p) => p.start > from && p.start < to).map((p) => ({ index: p.start - from, label: `phase ${p.index + 1}` })),
     [analysis, from, to],
   );
-  const spec = useMemo(() => ({ lsl: ch.spec.lsl, usl: ch.spec.usl }), [ch]);
+  // The CUSUM charts plot sums, not values: the specification does not belong on them.
+  const spec = useMemo(() => (isCusum ? {} : { lsl: ch.spec.lsl, usl: ch.spec.usl }), [ch]);
   const last = analysis.points[n - 1];
   const pick = (i: number) => setSelected(from + i);
   const selectedHere = selected !== null && selected >= from && selected < to ? selected - from : null;
@@ -81,9 +82,9 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
         </div>
       </div>
       <div class="chart-legend" aria-hidden="true">
-        <span><i class="legend-centre" />centre line</span>
-        <span><i class="legend-limit" />control limits</span>
-        {ch.spec.lsl !== undefined || ch.spec.usl !== undefined ? <span><i class="legend-spec" />specification</span> : null}
+        <span><i class="legend-centre" />{isCusum ? 'zero (on target)' : 'centre line'}</span>
+        <span><i class="legend-limit" />{isCusum ? 'decision interval H' : 'control limits'}</span>
+        {!isCusum && (ch.spec.lsl !== undefined || ch.spec.usl !== undefined) ? <span><i class="legend-spec" />specification</span> : null}
         <span><i class="legend-flag" />run rule fired</span>
       </div>
       <ControlChart label={label} points={main} flags={flags} phaseStarts={phaseStarts} spec={spec} decimals={isCount ? 3 : ch.decimals + 1}
