@@ -21,6 +21,12 @@ async function boot() {
     newId: newRecordId,
     session: sessionStorage,
     prefs: localStorage,
+    requestBackgroundSync: () => {
+      // Chromium only; elsewhere the foreground sender (online event, timer, app start) does the work.
+      void navigator.serviceWorker?.ready
+        .then((r) => (r as ServiceWorkerRegistration & { sync?: { register(tag: string): Promise<void> } }).sync?.register('plumbline-outbox'))
+        .catch(() => undefined); // not granted or not supported: the foreground sender still runs
+    },
     storage: { persist: () => requestPersistentStorage(), estimate: () => estimateStorage() },
     defaultTheme: matchMedia('(prefers-color-scheme: dark)').matches ? 'dark' : 'light',
   });

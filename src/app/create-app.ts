@@ -68,6 +68,8 @@ export interface AppDeps {
     persist(): Promise<boolean | null>;
     estimate(): Promise<{ usage: number; quota: number; isNearlyFull: boolean } | null>;
   };
+  /** Background Sync registration (Chromium): a wake-up call for the sender; optional everywhere. */
+  readonly requestBackgroundSync?: () => void;
   /** The theme before the person chooses one (e.g. from prefers-color-scheme). */
   readonly defaultTheme?: 'light' | 'dark';
 }
@@ -116,6 +118,11 @@ export function createPlumblineApp(deps: AppDeps) {
   const set = (patch: Partial<AppState>) => {
     state = { ...state, ...patch };
     for (const l of listeners) l();
+  };
+  /** After a save: try to send now, and ask the browser to wake us for it later if we are offline. */
+  const sendSoon = () => {
+    void sync?.syncNow();
+    deps.requestBackgroundSync?.();
   };
   const scheduleToastEnd = () => {
     clearTimeout(toastTimer);
@@ -345,7 +352,7 @@ export function createPlumblineApp(deps: AppDeps) {
       set({ views: { ...state.views, [characteristicId]: view }, error: undefined, ...(prompt ? { prompt } : {}),
         toast: fired.length ? 'Saved on this tablet — a run rule fired' : 'Saved on this tablet' });
       scheduleToastEnd();
-      void sync?.syncNow();
+      sendSoon();
       // After the chart is up: another tab (or a pull) may have written samples too, so check that the
       // cached copy is whole; if not, read it afresh and redraw.
       void countSamplesForCharacteristic(db, characteristicId).then(async (count) => {
@@ -380,7 +387,7 @@ export function createPlumblineApp(deps: AppDeps) {
       set({ prompt: undefined });
       await refreshViews([prompt.characteristicId]);
       toast('Answer saved on this tablet');
-      void sync?.syncNow();
+      sendSoon();
       return true;
     },
 
@@ -413,7 +420,7 @@ export function createPlumblineApp(deps: AppDeps) {
         return false;
       }
       await refreshViews([characteristicId]);
-      void sync?.syncNow();
+      sendSoon();
       return true;
     },
 
@@ -502,7 +509,7 @@ export function createPlumblineApp(deps: AppDeps) {
     }
     await refreshViews([characteristicId]);
     toast(`The ${what} is saved on this tablet; the original stays in the record`);
-    void sync?.syncNow();
+    sendSoon();
     return true;
   }
 
