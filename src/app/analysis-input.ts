@@ -54,7 +54,9 @@ export function buildChartSeries(ch: Characteristic, phases: readonly Phase[], c
   const phaseInputs: PhaseInput[] = [];
   const phaseIds: string[] = [];
   for (const p of ordered) {
-    let start = samples.findIndex((s) => s.takenAt >= p.startsAt);
+    // Compared as instants: '08:00:00Z' and '08:00:00.000Z' are the same moment but not the same text.
+    const startsAt = Date.parse(p.startsAt);
+    let start = samples.findIndex((s) => Date.parse(s.takenAt) >= startsAt);
     if (start < 0) start = samples.length;
     if (phaseInputs.length === 0) start = 0; // the first phase covers everything before it too
     const prev = phaseInputs[phaseInputs.length - 1];

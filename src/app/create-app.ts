@@ -432,6 +432,10 @@ export function createPlumblineApp(deps: AppDeps) {
         set({ error: 'A correction needs a reason.' });
         return false;
       }
+      if (original.excluded && !ENGINEERING.includes(state.person.role)) {
+        set({ error: 'This point is left out of the limits: only a quality engineer (or admin) can correct it.' });
+        return false;
+      }
       const problem = entryProblem(view!.characteristic, {
         values: entry.values ?? original.values, count: entry.count ?? original.count, inspected: entry.inspected ?? original.inspected,
       });
@@ -527,6 +531,7 @@ export function createPlumblineApp(deps: AppDeps) {
     start,
     stop() {
       clearInterval(tick);
+      clearTimeout(toastTimer);
       sync?.stop();
       unsubscribeSync?.();
     },

@@ -11,7 +11,8 @@ export type ParsedNumber = { ok: true; value: number } | { ok: false; message: s
  * type a point, the other one too when there is no ambiguity (one separator, no grouping).
  */
 export function parseEntry(text: string, decimals: number): ParsedNumber {
-  const t = text.trim().replace(/\s/g, '').replace('−', '-');
+  // Only surrounding spaces are dropped: "10 5" is two numbers, not 105.
+  const t = text.trim().replace('−', '-');
   if (t === '' || t === '-') return { ok: false, message: 'Enter a value.' };
   if (!/^-?\d+([.,]\d+)?$/.test(t)) return { ok: false, message: `“${text}” is not a number.` };
   const value = Number(t.replace(',', '.'));

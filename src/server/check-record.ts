@@ -93,6 +93,9 @@ function sampleProblem(sample: Extract<DeviceRecord, { kind: 'sample' }>, c: Cha
     if ((c.chartType === 'p' || c.chartType === 'np' || c.chartType === 'u') && sample.inspected === undefined) {
       return `Characteristic "${c.id}" (${c.chartType}) needs the quantity inspected with each count.`;
     }
+    if ((c.chartType === 'p' || c.chartType === 'np') && sample.inspected !== undefined && sample.count > sample.inspected) {
+      return `The sample counts ${sample.count} nonconforming items out of ${sample.inspected} inspected: the count cannot exceed the quantity inspected.`;
+    }
   }
   if ((sample.supersedes !== undefined || sample.excluded) && !sample.reason?.trim()) {
     return 'A correction or an exclusion needs a reason.';

@@ -66,7 +66,7 @@ export function SignalPromptSheet({ prompt, characteristic, siteCauses, actions 
               <button type="button" class="choice" key={p} aria-pressed={step === p} onClick={() => setStep(step === p ? '' : p)}>{p}</button>
             ))}
           </div>
-          <input class="text-input" name="otherAction" placeholder="Other action or detail" value={other} maxLength={200}
+          <input class="text-input" name="otherAction" placeholder="Other action or detail" value={other} maxLength={190}
             onInput={(e) => setOther((e.target as HTMLInputElement).value)} aria-label="Other action or detail" />
         </fieldset>
         {problem ? <p class="error-text" role="alert">{problem}</p> : null}

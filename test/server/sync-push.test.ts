@@ -124,6 +124,12 @@ describeBackends('push', (backend) => {
         ]);
         expect(res.results.map((r) => r.status)).toEqual(['rejected', 'rejected', 'stored']);
       });
+
+      it('rejects a p sample with more nonconforming items than items inspected', async () => {
+        const res = await push([makeSample(device.deviceId, { characteristicId: 'ch-def', values: undefined, count: 97, inspected: 96 })]);
+        expect(res.results[0]).toMatchObject({ status: 'rejected' });
+        expect(res.results[0]!.reason).toMatch(/cannot exceed the quantity inspected/);
+      });
     });
 
     it('answers 400 for a batch that is not a batch, and 401 without a device token', async () => {
