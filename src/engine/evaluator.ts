@@ -205,29 +205,24 @@ export class Evaluator {
     const companion = this.hasCompanion && this.companionRule !== null;
     const { value: values, size: sizes, spread: spreads } = this.stats;
     if (to - from >= BATCH_MIN && !smoother && constantSize(sizes, from, to)) {
-      // Same limits for the whole run of points: detect the rules word-parallel (bit-rules.ts).
+      // Same limits for the whole run of points: detect the rules word-parallel (bit-rules.ts),
+      // the companion chart in the same pass.
       const size = sizes[from]!;
       if (params !== this.limParams || size !== this.limSize) {
         computeLimits(kind, params, size, lim);
         this.limParams = params;
         this.limSize = size;
       }
-      const start = this.phaseStartOf(from);
-      detectBatch(values, Math.max(start, from - CONTEXT), from, to, lim.centre, lim.sigma, rules.set, sigs);
-      // Leave the point-by-point evaluator in the state it would have after `to`: replaying the
-      // last CONTEXT points from a reset is enough, as every counter only matters up to 15.
-      rules.reset();
-      rules.pushRun(values, Math.max(start, to - CONTEXT), to, lim.centre, lim.sigma, []);
-      if (companion) {
-        const ucl = lim.cUcl;
-        const lcl = lim.cLcl;
-        for (let i = from; i < to; i++) {
-          const spread = spreads[i]!;
-          if (spread > ucl || (lcl > 0 && spread < lcl)) this.companionSignal(i, spread > ucl ? 'above' : 'below');
-        }
-        sortTail(sigs, from);
+      if (lim.sigma > 0 && lim.sigma < Infinity) {
+        const start = this.phaseStartOf(from);
+        const check = companion ? { spread: spreads, ucl: lim.cUcl, lcl: lim.cLcl, rule: this.companionRule!, name: COMPANION_NAME[kind] ?? 'spread', pair: kind === 'xmr' } : undefined;
+        detectBatch(values, Math.max(start, from - CONTEXT), from, to, lim.centre, lim.sigma, rules.set, sigs, check);
+        // Leave the point-by-point evaluator in the state it would have after `to`: replaying the
+        // last CONTEXT points from a reset is enough, as every counter only matters up to 15.
+        rules.reset();
+        rules.pushRun(values, Math.max(start, to - CONTEXT), to, lim.centre, lim.sigma, []);
+        return;
       }
-      return;
     }
     for (let i = from; i < to; i++) {
       const size = sizes[i]!;
@@ -314,16 +309,6 @@ function constantSize(sizes: Float64Array, from: number, to: number): boolean {
   const n = sizes[from]!;
   for (let i = from + 1; i < to; i++) if (sizes[i] !== n) return false;
   return true;
-}
-
-// Signals at index ≥ from were pushed by two passes over the same points; order them by index
-// (stable, so rule order within a point is kept: run rules first, then the companion chart).
-function sortTail(sigs: Signal[], from: number): void {
-  let start = sigs.length;
-  while (start > 0 && sigs[start - 1]!.index >= from) start--;
-  if (sigs.length - start < 2) return;
-  const tail = sigs.slice(start).sort((a, b) => a.index - b.index);
-  for (let k = 0; k < tail.length; k++) sigs[start + k] = tail[k]!;
 }
 
 function fin(x: number): number | null {
