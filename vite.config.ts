@@ -40,7 +40,7 @@ export default defineConfig({
       {
         extends: true,
         root: here,
-        test: { name: 'server', include: ['test/server/**/*.test.ts'], environment: 'node' },
+        test: { name: 'server', include: ['test/server/**/*.test.ts'], environment: 'node', globalSetup: ['test/setup/postgres-global-setup.ts'] },
       },
       {
         extends: true,
