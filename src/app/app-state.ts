@@ -105,7 +105,6 @@ export interface AnswerInput {
 export interface AppActions {
   enrol(code: string, deviceName: string): Promise<boolean>;
   signIn(login: string, pin: string): Promise<boolean>;
-  switchPerson(personId: string): void;
   signOut(): void;
   addPerson(): void;
   selectStation(stationId: string): void;

@@ -295,10 +295,6 @@ export function createPlumblineApp(deps: AppDeps) {
       }
     },
 
-    switchPerson(personId) {
-      const p = state.signedIn.find((x) => x.id === personId);
-      if (p) void becomeReady(p);
-    },
     signOut() {
       deps.session.removeItem('plumbline.person');
       set({ stage: 'sign-in', person: undefined, prompt: undefined, error: undefined });

@@ -42,7 +42,6 @@ describe('SignInScreen', () => {
     expect(screen.getByRole('button', { name: 'Sven' }).getAttribute('aria-pressed')).toBe('true');
     key('next');
     expect(actions.signIn).not.toHaveBeenCalled(); // no PIN yet
-    expect(actions.switchPerson).not.toHaveBeenCalled(); // no switching without the PIN
   });
 
   it('signs in with the trimmed login and the PIN; a refusal empties the PIN and shows the error', async () => {
