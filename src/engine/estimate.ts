@@ -56,7 +56,33 @@ export function estimatePhase(kind: ChartKind, stats: SubgroupStats, from: numbe
     return { params: ok ? { centre, sigma: NaN, method, mrCentreFactor: NaN, pooledS: NaN } : null, used, warnings };
   }
 
-  // Variable charts.
+  // Variable charts. One value per subgroup and nothing excluded (individuals): one loop for
+  // the mean and the mean moving range, summed in the same order as below.
+  if (stats.singleIncluded && to > from) {
+    const method = requested ?? defaultSigmaMethod(kind, false, true);
+    if (method === 'mr-mean') {
+      const v = stats.value;
+      const sp = stats.spread;
+      let sum = 0 + v[from]!; // 0 + x as the general loop below has it (−0 becomes 0)
+      let mrSum = 0;
+      let k = 0;
+      for (let i = from + 1; i < to; i++) {
+        sum += v[i]!;
+        const m = sp[i]!;
+        if (m === m) {
+          // not NaN (a phase start has no moving range)
+          mrSum += m;
+          k++;
+        }
+      }
+      const used = to - from;
+      if (k === 0) return { params: null, used, warnings: ['At least 2 consecutive values are needed for a moving range: limits cannot be computed yet.'] };
+      const sigma = mrSum / k / chartConstants(2).d2; // MR̄/d2(2)
+      if (!(sigma > 0)) return { params: null, used, warnings: ['All baseline values are equal (no variation): sigma is 0 and limits cannot be computed.'] };
+      return { params: { centre: sum / used, sigma, method, mrCentreFactor: chartConstants(2).d2, pooledS: NaN }, used, warnings };
+    }
+  }
+
   let used = 0;
   let sumN = 0;
   let sumNX = 0;

@@ -204,7 +204,7 @@ export class Evaluator {
     const smoother = this.smoother;
     const companion = this.hasCompanion && this.companionRule !== null;
     const { value: values, size: sizes, spread: spreads } = this.stats;
-    if (to - from >= BATCH_MIN && !smoother && constantSize(sizes, from, to)) {
+    if (to - from >= BATCH_MIN && !smoother && this.stats.sameSize(from, to)) {
       // Same limits for the whole run of points: detect the rules word-parallel (bit-rules.ts),
       // the companion chart in the same pass.
       const size = sizes[from]!;
@@ -304,12 +304,6 @@ export class Evaluator {
 }
 
 const RULES = new Set<string>(['we1', 'we2', 'we3', 'we4', 'n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8']);
-
-function constantSize(sizes: Float64Array, from: number, to: number): boolean {
-  const n = sizes[from]!;
-  for (let i = from + 1; i < to; i++) if (sizes[i] !== n) return false;
-  return true;
-}
 
 function fin(x: number): number | null {
   return Number.isFinite(x) ? x : null;

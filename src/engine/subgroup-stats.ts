@@ -4,6 +4,10 @@
  * the proportion p, the count (np, c) or the rate u. `spread` is R (X̄-R), s (X̄-S) or the moving
  * range to the previous point of the same phase (individuals), NaN where it does not exist.
  * Columns are typed arrays with spare capacity: read indices below `length` only.
+ * While every size is 1 and nothing is excluded (individuals), `size` and `excluded` are one
+ * shared read-only column of ones and of zeros: a long series allocates only `value` and
+ * `spread`. The first other size or exclusion gives the stats their own column. `count` is
+ * kept for attribute charts only.
  */
 import { grow, growBytes } from './columns';
 import type { ChartKind, SubgroupInput } from './types';
@@ -17,11 +21,15 @@ export class EngineInputError extends Error {
 
 export class SubgroupStats {
   value: Float64Array = new Float64Array(0);
-  /** Subgroup size: values in it, items inspected (p, np) or area units (u); 1 for c. */
-  size: Float64Array = new Float64Array(0);
+  /** Subgroup size: values in it, items inspected (p, np) or area units (u); 1 for c. Read-only outside this class. */
+  size: Float64Array = ones(0);
+  /** Defects or defectives (attribute charts; empty for the others). */
   count: Float64Array = new Float64Array(0);
   spread: Float64Array = new Float64Array(0);
-  excluded: Uint8Array = new Uint8Array(0);
+  /** 1 where the subgroup is excluded. Read-only outside this class. */
+  excluded: Uint8Array = zeros(0);
+  private ownSize = false; // false: `size` is the shared column of ones
+  private ownExcluded = false; // false: `excluded` is the shared column of zeros
   /** Exclusion reasons by subgroup index (sparse). */
   readonly reason = new Map<number, string>();
   /** The measured values of subgroups with 2 or more values, by index (a single value is `value` itself). */
@@ -71,10 +79,12 @@ export class SubgroupStats {
       }
     }
     this.value[i] = value;
-    this.size[i] = size;
-    this.count[i] = count;
+    if (size !== 1 && !this.ownSize) this.ownSizeColumn();
+    if (this.ownSize) this.size[i] = size;
+    if (this.isAttribute) this.count[i] = count;
     this.spread[i] = spread;
-    this.excluded[i] = sg.excluded === true ? 1 : 0;
+    if (sg.excluded === true && !this.ownExcluded) this.ownExcludedColumn();
+    if (this.ownExcluded) this.excluded[i] = sg.excluded === true ? 1 : 0;
     if (sg.exclusionReason !== undefined) this.reason.set(i, sg.exclusionReason);
     if (size > 1) this.raw.set(i, sg.values!);
     this.length = i + 1;
@@ -87,10 +97,9 @@ export class SubgroupStats {
     if (!Number.isFinite(x)) throw new EngineInputError(`subgroup ${i}: value ${String(x)} is not a finite number`);
     if (this.isAttribute) throw new EngineInputError(`a ${this.kind} chart needs counts, not measured values`);
     this.value[i] = x;
-    this.size[i] = 1;
-    this.count[i] = NaN;
+    if (this.ownSize) this.size[i] = 1;
     this.spread[i] = this.usesMovingRange && i > phaseStart ? Math.abs(x - this.value[i - 1]!) : NaN;
-    this.excluded[i] = 0;
+    if (this.ownExcluded) this.excluded[i] = 0;
     this.length = i + 1;
   }
 
@@ -101,19 +110,33 @@ export class SubgroupStats {
     this.reserve(first + to - from);
     const v = this.value;
     const sp = this.spread;
-    const mr = this.usesMovingRange;
+    const end = first + to - from;
+    // Spreads: moving ranges from the second point of the phase on; NaN before (and for X̄ charts).
+    const mrFrom = this.usesMovingRange ? Math.min(end, Math.max(first, phaseStart + 1)) : end;
     let prev = first > 0 ? v[first - 1]! : NaN;
-    for (let j = from, i = first; j < to; j++, i++) {
+    let check = 0; // x − x is 0 for a finite x and NaN otherwise: one test after the loop
+    for (let j = from, i = first; i < mrFrom; j++, i++) {
       const x = values[j]!;
-      if (!Number.isFinite(x)) throw new EngineInputError(`subgroup ${i}: value ${String(x)} is not a finite number`);
+      check += x - x;
       v[i] = x;
-      sp[i] = mr && i > phaseStart ? Math.abs(x - prev) : NaN;
+      sp[i] = NaN;
       prev = x;
     }
-    const end = first + to - from;
-    this.size.fill(1, first, end);
-    this.count.fill(NaN, first, end);
-    this.excluded.fill(0, first, end);
+    for (let j = from + mrFrom - first, i = mrFrom; i < end; j++, i++) {
+      const x = values[j]!;
+      check += x - x;
+      v[i] = x;
+      sp[i] = Math.abs(x - prev);
+      prev = x;
+    }
+    if (check !== 0) {
+      for (let j = from, i = first; j < to; j++, i++) {
+        const x = values[j]!;
+        if (!Number.isFinite(x)) throw new EngineInputError(`subgroup ${i}: value ${String(x)} is not a finite number`);
+      }
+    }
+    if (this.ownSize) this.size.fill(1, first, end);
+    if (this.ownExcluded) this.excluded.fill(0, first, end);
     this.length = end;
   }
 
@@ -144,9 +167,50 @@ export class SubgroupStats {
   /** Makes room for `n` subgroups (a batch reserves once). */
   reserve(n: number): void {
     this.value = grow(this.value, n);
-    this.size = grow(this.size, n);
-    this.count = grow(this.count, n);
+    this.size = this.ownSize ? grow(this.size, n) : ones(this.value.length);
+    if (this.isAttribute) this.count = grow(this.count, n);
     this.spread = grow(this.spread, n);
-    this.excluded = growBytes(this.excluded, n);
+    this.excluded = this.ownExcluded ? growBytes(this.excluded, n) : zeros(this.value.length);
   }
+
+  // The first size other than 1: a column of this series' own, ones so far.
+  private ownSizeColumn(): void {
+    const own = new Float64Array(this.value.length);
+    own.fill(1, 0, this.length);
+    this.size = own;
+    this.ownSize = true;
+  }
+
+  private ownExcludedColumn(): void {
+    this.excluded = new Uint8Array(this.value.length);
+    this.ownExcluded = true;
+  }
+
+  /** Every subgroup so far has one value and none is excluded. */
+  get singleIncluded(): boolean {
+    return !this.ownSize && !this.ownExcluded && !this.isAttribute;
+  }
+
+  /** True when subgroups [from, to) all have the size of subgroup `from`. */
+  sameSize(from: number, to: number): boolean {
+    if (!this.ownSize) return true;
+    const sizes = this.size;
+    const n = sizes[from]!;
+    for (let i = from + 1; i < to; i++) if (sizes[i] !== n) return false;
+    return true;
+  }
+}
+
+// Shared read-only columns (never written: a series that needs other values takes its own copy).
+let ONES = new Float64Array(0);
+let ZEROS = new Uint8Array(0);
+
+function ones(n: number): Float64Array {
+  if (ONES.length < n) ONES = new Float64Array(Math.max(n, 2 * ONES.length, 64)).fill(1);
+  return ONES;
+}
+
+function zeros(n: number): Uint8Array {
+  if (ZEROS.length < n) ZEROS = new Uint8Array(Math.max(n, 2 * ZEROS.length, 64));
+  return ZEROS;
 }
