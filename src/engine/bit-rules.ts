@@ -48,7 +48,6 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   const a1 = zoneBound(sigma, 1);
   const a2 = zoneBound(sigma, 2);
   const a3 = zoneBound(sigma, 3);
-  const na0 = -a0;
   const spread = companion ? companion.spread : values;
   const cUcl = companion ? companion.ucl : Infinity;
   const cLcl = companion && companion.lcl > 0 ? companion.lcl : -Infinity;
@@ -61,34 +60,20 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   const texts = ruleTexts();
 
   const W = (n + 31) >>> 5;
+  const planes = scratch(W);
+  classify(values, contextStart, n, centre, a0, a1, a2, a3, spread, cUcl, cLcl, planes);
+  const { P, O1, UP, Z, E, X2, X3, CF } = planes;
   const firstJ = from - contextStart; // bits below this never fire
   // The previous word of every quantity that is shifted (0 before the context start).
   let pP = 0, pM = 0, pU1 = 0, pD1 = 0, pU2 = 0, pD2 = 0, pUP = 0, pDN = 0;
   let pP2 = 0, pP4 = 0, pM2 = 0, pM4 = 0, pUP2 = 0, pDN2 = 0, pT = 0, pT2 = 0, pT4 = 0;
   let pI = 0, pI2 = 0, pI4 = 0, pI8 = 0, pO = 0, pO2 = 0, pO4 = 0, pA2 = 0, pA4 = 0, pB2 = 0, pB4 = 0;
-  let prev = values[contextStart]!; // the first point has no previous one: neither up nor down
   for (let w = 0; w < W; w++) {
     const base = contextStart + (w << 5);
     const end = Math.min(32, n - (w << 5));
-    let p = 0, m = 0, o1 = 0, o2 = 0, o3 = 0, up = 0, dn = 0, cf = 0;
-    for (let b = 0; b < end; b++) {
-      const x = values[base + b]!;
-      const d = x - centre;
-      const ad = Math.abs(d);
-      p |= bit(d > a0) << b;
-      m |= bit(d < na0) << b;
-      o1 |= bit(ad > a1) << b;
-      up |= bit(x > prev) << b;
-      dn |= bit(x < prev) << b;
-      prev = x;
-      if (ad > a2) {
-        // rare on a process in control (about 1 point in 20)
-        o2 |= 1 << b;
-        o3 |= bit(ad > a3) << b;
-      }
-      const s = spread[base + b]!;
-      if (s > cUcl || s < cLcl) cf |= 1 << b; // NaN (no spread) never
-    }
+    const p = P[w]!, o1 = O1[w]!, up = UP[w]!, o2 = X2[w]!, o3 = X3[w]!, cf = CF[w]!;
+    const m = ~p & ~Z[w]!; // below the centre: neither above nor on it
+    const dn = ~up & ~E[w]!; // down: neither up nor level (nor the first point)
     const U1 = o1 & p, D1 = o1 & m, U2 = o2 & p, D2 = o2 & m;
 
     let fire = cf;
@@ -163,6 +148,74 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
     pP = p; pM = m; pU1 = U1; pD1 = D1; pU2 = U2; pD2 = D2; pUP = up; pDN = dn;
     pP2 = P2; pP4 = P4; pM2 = M2; pM4 = M4; pUP2 = UP2; pDN2 = DN2; pT = T; pT2 = T2; pT4 = T4;
     pI = I; pI2 = I2; pI4 = I4; pI8 = I8; pO = o1; pO2 = O2; pO4 = O4; pA2 = A2; pA4 = A4; pB2 = B2; pB4 = B4;
+  }
+}
+
+interface Planes {
+  /** Per word, bit b for point contextStart + 32w + b: above the centre (z > 0), */
+  readonly P: Int32Array;
+  /** beyond ±1σ, above the previous value, */
+  readonly O1: Int32Array;
+  readonly UP: Int32Array;
+  /** exactly on the centre (z = 0), level with the previous value (or the first point), */
+  readonly Z: Int32Array;
+  readonly E: Int32Array;
+  /** beyond ±2σ, beyond ±3σ, companion spread beyond its limits. */
+  readonly X2: Int32Array;
+  readonly X3: Int32Array;
+  readonly CF: Int32Array;
+}
+
+let planesCache: Planes | null = null;
+
+// Word planes reused from call to call (the engine runs on one thread; a batch never nests).
+function scratch(W: number): Planes {
+  if (!planesCache || planesCache.P.length < W) {
+    const size = Math.max(W, 2 * (planesCache?.P.length ?? 0), 64);
+    const mk = () => new Int32Array(size);
+    planesCache = { P: mk(), O1: mk(), UP: mk(), Z: mk(), E: mk(), X2: mk(), X3: mk(), CF: mk() };
+  }
+  const c = planesCache;
+  c.Z.fill(0, 0, W);
+  c.E.fill(0, 0, W);
+  c.X2.fill(0, 0, W);
+  c.X3.fill(0, 0, W);
+  c.CF.fill(0, 0, W);
+  return c;
+}
+
+// The one loop over the points: three comparisons that come out either way on noisy data become
+// bits without a branch; the rare cases (beyond ±2σ, ties, a companion signal) take a branch.
+function classify(values: Float64Array, cs: number, n: number, centre: number, a0: number, a1: number, a2: number, a3: number, spread: Float64Array, cUcl: number, cLcl: number, out: Planes): void {
+  const { P, O1, UP, Z, E, X2, X3, CF } = out;
+  const W = (n + 31) >>> 5;
+  let prev = values[cs]!; // the first point has no previous one: level
+  for (let w = 0; w < W; w++) {
+    const base = cs + (w << 5);
+    const end = Math.min(32, n - (w << 5));
+    let p = 0, o1 = 0, up = 0;
+    for (let b = 0; b < end; b++) {
+      const x = values[base + b]!;
+      const d = x - centre;
+      const ad = Math.abs(d);
+      p |= bit(d > a0) << b;
+      o1 |= bit(ad > a1) << b;
+      up |= bit(x > prev) << b;
+      const s = spread[base + b]!;
+      if (ad > a2 || ad <= a0 || x === prev || s > cUcl || s < cLcl) {
+        if (ad > a2) {
+          X2[w]! |= 1 << b;
+          if (ad > a3) X3[w]! |= 1 << b;
+        }
+        if (ad <= a0) Z[w]! |= 1 << b;
+        if (x === prev) E[w]! |= 1 << b;
+        if (s > cUcl || s < cLcl) CF[w]! |= 1 << b; // NaN (no spread) never
+      }
+      prev = x;
+    }
+    P[w] = p;
+    O1[w] = o1;
+    UP[w] = up;
   }
 }
 

@@ -61,18 +61,27 @@ export function estimatePhase(kind: ChartKind, stats: SubgroupStats, from: numbe
   if (stats.singleIncluded && to > from) {
     const method = requested ?? defaultSigmaMethod(kind, false, true);
     if (method === 'mr-mean') {
-      const v = stats.value;
-      const sp = stats.spread;
-      let sum = 0 + v[from]!; // 0 + x as the general loop below has it (−0 becomes 0)
+      let sum = 0;
       let mrSum = 0;
       let k = 0;
-      for (let i = from + 1; i < to; i++) {
-        sum += v[i]!;
-        const m = sp[i]!;
-        if (m === m) {
-          // not NaN (a phase start has no moving range)
-          mrSum += m;
-          k++;
+      const batch = stats.batchSums(from, to);
+      if (batch) {
+        // summed while the values were added, in this order
+        sum = batch.sum;
+        mrSum = batch.mrSum;
+        k = batch.mrCount;
+      } else {
+        const v = stats.value;
+        const sp = stats.spread;
+        sum = 0 + v[from]!; // 0 + x as the general loop below has it (−0 becomes 0)
+        for (let i = from + 1; i < to; i++) {
+          sum += v[i]!;
+          const m = sp[i]!;
+          if (m === m) {
+            // not NaN (a phase start has no moving range)
+            mrSum += m;
+            k++;
+          }
         }
       }
       const used = to - from;

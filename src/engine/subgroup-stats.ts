@@ -19,6 +19,14 @@ export class EngineInputError extends Error {
   }
 }
 
+export interface BatchSums {
+  readonly from: number;
+  readonly to: number;
+  readonly sum: number;
+  readonly mrSum: number;
+  readonly mrCount: number;
+}
+
 export class SubgroupStats {
   value: Float64Array = new Float64Array(0);
   /** Subgroup size: values in it, items inspected (p, np) or area units (u); 1 for c. Read-only outside this class. */
@@ -114,33 +122,62 @@ export class SubgroupStats {
     // Spreads: moving ranges from the second point of the phase on; NaN before (and for X̄ charts).
     const mrFrom = this.usesMovingRange ? Math.min(end, Math.max(first, phaseStart + 1)) : end;
     let prev = first > 0 ? v[first - 1]! : NaN;
-    let check = 0; // x − x is 0 for a finite x and NaN otherwise: one test after the loop
-    for (let j = from, i = first; i < mrFrom; j++, i++) {
+    // Σx doubles as the check that every value is finite (a NaN or ±Infinity makes it non-finite);
+    // the baseline estimate reuses both sums when its range is this batch (same order of addition).
+    let sum = 0;
+    let mrSum = 0;
+    let i = first;
+    let j = from;
+    for (; i < mrFrom; j++, i++) {
       const x = values[j]!;
-      check += x - x;
+      sum += x;
       v[i] = x;
       sp[i] = NaN;
       prev = x;
     }
-    for (let j = from + mrFrom - first, i = mrFrom; i < end; j++, i++) {
+    if (i === first && i < end) {
+      // the moving range to the point before this batch is not the batch's own
       const x = values[j]!;
-      check += x - x;
+      sum += x;
       v[i] = x;
       sp[i] = Math.abs(x - prev);
       prev = x;
+      i++;
+      j++;
     }
-    if (check !== 0) {
+    const mrCount = end - i;
+    for (; i < end; j++, i++) {
+      const x = values[j]!;
+      sum += x;
+      v[i] = x;
+      const m = Math.abs(x - prev);
+      sp[i] = m;
+      mrSum += m;
+      prev = x;
+    }
+    if (!Number.isFinite(sum)) {
       for (let j = from, i = first; j < to; j++, i++) {
         const x = values[j]!;
         if (!Number.isFinite(x)) throw new EngineInputError(`subgroup ${i}: value ${String(x)} is not a finite number`);
       }
     }
+    this.batch = { from: first, to: end, sum, mrSum, mrCount };
     if (this.ownSize) this.size.fill(1, first, end);
     if (this.ownExcluded) this.excluded.fill(0, first, end);
     this.length = end;
   }
 
   private lastSpread = NaN;
+  private batch: BatchSums | null = null;
+
+  /**
+   * Sums over subgroups [from, to) when exactly they were added by the last pushValues():
+   * Σx from `from` on, and the moving ranges after `from` (none for X̄ charts).
+   */
+  batchSums(from: number, to: number): BatchSums | null {
+    const b = this.batch;
+    return b && b.from === from && b.to === to ? b : null;
+  }
 
   // Mean of a subgroup of 2 or more values; leaves R or s (n − 1 divisor) in lastSpread.
   private summarise(vs: readonly number[], i: number): number {
