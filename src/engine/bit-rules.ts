@@ -44,6 +44,143 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   const n = to - contextStart;
   if (n <= 0) return;
   if (!(sigma > 0 && sigma < Infinity && Number.isFinite(centre))) throw new Error('detectBatch needs a finite centre and a positive finite sigma');
+  const W = (n + 31) >>> 5;
+  const pl = scratch(W);
+  classify(values, contextStart, n, centre, sigma, companion, pl);
+  sameSideRuns(pl, W);
+  trends(pl, W);
+  zoneWindows(pl, W);
+  insideOutside(pl, W);
+  const F = pl.F;
+  const firstJ = from - contextStart; // bits below this never fire
+  const { X3, F23U, F23D, F45U, F45D, P8, M8, P9, M9, RISE, FALL, TURN, IN, OUT, CF } = pl;
+  const r1 = set.we1 || set.n1 ? -1 : 0; // all bits or none: the union below has no branch
+  const r23 = set.we2 || set.n5 ? -1 : 0;
+  const r45 = set.we3 || set.n6 ? -1 : 0;
+  const r8 = set.we4 ? -1 : 0;
+  const r9 = set.n2 ? -1 : 0;
+  const rTrend = set.n3 ? -1 : 0;
+  const rTurn = set.n4 ? -1 : 0;
+  const rIn = set.n7 ? -1 : 0;
+  const rOut = set.n8 ? -1 : 0;
+  for (let w = 0; w < W; w++) {
+    F[w] =
+      (r1 & X3[w]!) | (r23 & (F23U[w]! | F23D[w]!)) | (r45 & (F45U[w]! | F45D[w]!)) | (r8 & (P8[w]! | M8[w]!)) | (r9 & (P9[w]! | M9[w]!)) |
+      (rTrend & (RISE[w]! | FALL[w]!)) | (rTurn & TURN[w]!) | (rIn & IN[w]!) | (rOut & OUT[w]!) | CF[w]!;
+  }
+  // Bits past the last point and before `from` never fire.
+  if ((n & 31) !== 0) F[W - 1]! &= (1 << (n & 31)) - 1;
+  for (let w = 0; w < firstJ >>> 5; w++) F[w] = 0;
+  if ((firstJ & 31) !== 0) F[firstJ >>> 5]! &= -1 << (firstJ & 31);
+  const t = ruleTexts();
+  const cAbove = companion ? explainCompanion(companion.name, 'above') : '';
+  const cBelow = companion ? explainCompanion(companion.name, 'below') : '';
+  const { P, U1, D1, U2, D2 } = pl;
+  for (let w = 0; w < W; w++) {
+    let f = F[w]!;
+    if (f === 0) continue;
+    const base = contextStart + (w << 5);
+    const x3 = X3[w]!, p = P[w]!, f23u = F23U[w]!, f23 = f23u | F23D[w]!, f45u = F45U[w]!, f45 = f45u | F45D[w]!;
+    const p8 = P8[w]!, s8 = p8 | M8[w]!, p9 = P9[w]!, s9 = p9 | M9[w]!, rise = RISE[w]!, trend = rise | FALL[w]!;
+    const turn = TURN[w]!, inside = IN[w]!, outside = OUT[w]!, cf = CF[w]!;
+    while (f !== 0) {
+      const b = 31 - Math.clz32(f & -f);
+      f &= f - 1;
+      const i = base + b;
+      // The evaluator's rule order, then the companion chart.
+      if (r1 & (x3 >>> b) & 1) {
+        const above = (p >>> b) & 1;
+        if (set.we1) out.push(sided('we1', i, [i], above, t.we1));
+        if (set.n1) out.push(sided('n1', i, [i], above, t.n1));
+      }
+      if (r23 & (f23 >>> b) & 1) {
+        const above = (f23u >>> b) & 1;
+        const plane = above ? U2 : D2;
+        const pts = windowPoints(plane[w]!, w > 0 ? plane[w - 1]! : 0, b, i, 3);
+        if (set.we2) out.push(sided('we2', i, pts, above, t.we2));
+        if (set.n5) out.push(sided('n5', i, set.we2 ? pts.slice() : pts, above, t.n5));
+      }
+      if (r45 & (f45 >>> b) & 1) {
+        const above = (f45u >>> b) & 1;
+        const plane = above ? U1 : D1;
+        const pts = windowPoints(plane[w]!, w > 0 ? plane[w - 1]! : 0, b, i, 5);
+        if (set.we3) out.push(sided('we3', i, pts, above, t.we3));
+        if (set.n6) out.push(sided('n6', i, set.we3 ? pts.slice() : pts, above, t.n6));
+      }
+      if (r8 & (s8 >>> b) & 1) out.push(sided('we4', i, run(i, 8), (p8 >>> b) & 1, t.we4));
+      if (r9 & (s9 >>> b) & 1) out.push(sided('n2', i, run(i, 9), (p9 >>> b) & 1, t.n2));
+      if (rTrend & (trend >>> b) & 1) out.push(sided('n3', i, run(i, 6), (rise >>> b) & 1, t.n3));
+      if (rTurn & (turn >>> b) & 1) out.push({ rule: 'n4', index: i, points: run(i, 14), explanation: t.n4 });
+      if (rIn & (inside >>> b) & 1) out.push({ rule: 'n7', index: i, points: run(i, 15), explanation: t.n7 });
+      if (rOut & (outside >>> b) & 1) out.push({ rule: 'n8', index: i, points: run(i, 8), explanation: t.n8 });
+      if ((cf >>> b) & 1) {
+        const c = companion!;
+        const above = c.spread[i]! > c.ucl;
+        out.push({ rule: c.rule, index: i, points: c.pair ? [i - 1, i] : [i], side: above ? 'above' : 'below', explanation: above ? cAbove : cBelow, companion: true });
+      }
+    }
+  }
+}
+
+/** One word per 32 points for each zone test, the rule patterns, and which points fire. */
+interface Planes {
+  // From the values: above the centre (z > 0), beyond ±1σ, above the previous value, beyond ±2σ,
+  // beyond ±3σ, exactly on the centre (z = 0), level with the previous value (or the first
+  // point: no previous), companion spread beyond its limits.
+  readonly P: Int32Array;
+  readonly O1: Int32Array;
+  readonly UP: Int32Array;
+  readonly X2: Int32Array;
+  readonly X3: Int32Array;
+  readonly Z: Int32Array;
+  readonly E: Int32Array;
+  readonly CF: Int32Array;
+  // Derived: below the centre, down from the previous value, beyond +1σ, −1σ, +2σ, −2σ.
+  readonly M: Int32Array;
+  readonly DN: Int32Array;
+  readonly U1: Int32Array;
+  readonly D1: Int32Array;
+  readonly U2: Int32Array;
+  readonly D2: Int32Array;
+  // Patterns ending at each point.
+  readonly F23U: Int32Array;
+  readonly F23D: Int32Array;
+  readonly F45U: Int32Array;
+  readonly F45D: Int32Array;
+  readonly P8: Int32Array;
+  readonly M8: Int32Array;
+  readonly P9: Int32Array;
+  readonly M9: Int32Array;
+  readonly RISE: Int32Array;
+  readonly FALL: Int32Array;
+  readonly TURN: Int32Array;
+  readonly IN: Int32Array;
+  readonly OUT: Int32Array;
+  /** Any selected rule or the companion chart fires. */
+  readonly F: Int32Array;
+}
+
+let planesCache: Planes | null = null;
+
+// Planes reused from call to call (the engine runs on one thread and a batch never nests); every
+// word below W is written before it is read.
+function scratch(W: number): Planes {
+  if (!planesCache || planesCache.P.length < W) {
+    const size = Math.max(W, 2 * (planesCache?.P.length ?? 0), 64);
+    const a = (): Int32Array => new Int32Array(size);
+    // A literal keeps the object's shape fixed (fast property access in the loops).
+    planesCache = {
+      P: a(), O1: a(), UP: a(), X2: a(), X3: a(), Z: a(), E: a(), CF: a(), M: a(), DN: a(), U1: a(), D1: a(), U2: a(), D2: a(),
+      F23U: a(), F23D: a(), F45U: a(), F45D: a(), P8: a(), M8: a(), P9: a(), M9: a(), RISE: a(), FALL: a(), TURN: a(), IN: a(), OUT: a(), F: a(),
+    };
+  }
+  return planesCache;
+}
+
+// The one loop over the points. The comparisons that come out either way on noisy data become
+// bits without a branch; the rare cases (beyond ±3σ, on the centre, level with the previous
+// value, a companion signal) are marked in one word and sorted out afterwards.
+function classify(values: Float64Array, cs: number, n: number, centre: number, sigma: number, companion: CompanionCheck | undefined, pl: Planes): void {
   const a0 = zoneBound(sigma, 0);
   const a1 = zoneBound(sigma, 1);
   const a2 = zoneBound(sigma, 2);
@@ -51,171 +188,111 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   const spread = companion ? companion.spread : values;
   const cUcl = companion ? companion.ucl : Infinity;
   const cLcl = companion && companion.lcl > 0 ? companion.lcl : -Infinity;
-
-  // Rule families in use (a word-level formula is skipped when none of its rules is selected).
-  const limitRule = set.we1 || set.n1;
-  const twoOfThree = set.we2 || set.n5;
-  const fourOfFive = set.we3 || set.n6;
-  const sameSide = set.we4 || set.n2;
-  const texts = ruleTexts();
-
-  const W = (n + 31) >>> 5;
-  const planes = scratch(W);
-  classify(values, contextStart, n, centre, a0, a1, a2, a3, spread, cUcl, cLcl, planes);
-  const { P, O1, UP, Z, E, X2, X3, CF } = planes;
-  const firstJ = from - contextStart; // bits below this never fire
-  // The previous word of every quantity that is shifted (0 before the context start).
-  let pP = 0, pM = 0, pU1 = 0, pD1 = 0, pU2 = 0, pD2 = 0, pUP = 0, pDN = 0;
-  let pP2 = 0, pP4 = 0, pM2 = 0, pM4 = 0, pUP2 = 0, pDN2 = 0, pT = 0, pT2 = 0, pT4 = 0;
-  let pI = 0, pI2 = 0, pI4 = 0, pI8 = 0, pO = 0, pO2 = 0, pO4 = 0, pA2 = 0, pA4 = 0, pB2 = 0, pB4 = 0;
-  for (let w = 0; w < W; w++) {
-    const base = contextStart + (w << 5);
-    const end = Math.min(32, n - (w << 5));
-    const p = P[w]!, o1 = O1[w]!, up = UP[w]!, o2 = X2[w]!, o3 = X3[w]!, cf = CF[w]!;
-    const m = ~p & ~Z[w]!; // below the centre: neither above nor on it
-    const dn = ~up & ~E[w]!; // down: neither up nor level (nor the first point)
-    const U1 = o1 & p, D1 = o1 & m, U2 = o2 & p, D2 = o2 & m;
-
-    let fire = cf;
-    if (limitRule) fire |= o3;
-    const f23u = U2 & (sh(U2, pU2, 1) | sh(U2, pU2, 2));
-    const f23d = D2 & (sh(D2, pD2, 1) | sh(D2, pD2, 2));
-    if (twoOfThree) fire |= f23u | f23d;
-    const f45u = fourOfFiveOf(U1, pU1);
-    const f45d = fourOfFiveOf(D1, pD1);
-    if (fourOfFive) fire |= f45u | f45d;
-    const P2 = p & sh(p, pP, 1), P4 = P2 & sh(P2, pP2, 2), P8 = P4 & sh(P4, pP4, 4), P9 = P8 & sh(p, pP, 8);
-    const M2 = m & sh(m, pM, 1), M4 = M2 & sh(M2, pM2, 2), M8 = M4 & sh(M4, pM4, 4), M9 = M8 & sh(m, pM, 8);
-    if (set.we4) fire |= P8 | M8;
-    if (set.n2) fire |= P9 | M9;
-    const UP2 = up & sh(up, pUP, 1), UP4 = UP2 & sh(UP2, pUP2, 2), rises = UP4 & sh(up, pUP, 4);
-    const DN2 = dn & sh(dn, pDN, 1), DN4 = DN2 & sh(DN2, pDN2, 2), falls = DN4 & sh(dn, pDN, 4);
-    if (set.n3) fire |= rises | falls;
-    // A turn: this difference and the previous one are both non-zero and opposite.
-    const T = (up & sh(dn, pDN, 1)) | (dn & sh(up, pUP, 1));
-    const T2 = T & sh(T, pT, 1), T4 = T2 & sh(T2, pT2, 2), T8 = T4 & sh(T4, pT4, 4), turns = T8 & sh(T4, pT4, 8);
-    if (set.n4) fire |= turns;
-    const I = ~o1; // within ±1σ (bits past the last point are never read)
-    const I2 = I & sh(I, pI, 1), I4 = I2 & sh(I2, pI2, 2), I8 = I4 & sh(I4, pI4, 4), inside = I8 & sh(I8, pI8, 7);
-    if (set.n7) fire |= inside;
-    const O2 = o1 & sh(o1, pO, 1), O4 = O2 & sh(O2, pO2, 2), O8 = O4 & sh(O4, pO4, 4);
-    const A2 = U1 | sh(U1, pU1, 1), A4 = A2 | sh(A2, pA2, 2), A8 = A4 | sh(A4, pA4, 4);
-    const B2 = D1 | sh(D1, pD1, 1), B4 = B2 | sh(B2, pB2, 2), B8 = B4 | sh(B4, pB4, 4);
-    const outside = O8 & A8 & B8;
-    if (set.n8) fire |= outside;
-
-    if (end < 32) fire &= (1 << end) - 1;
-    if ((w << 5) + 32 <= firstJ) fire = 0;
-    else if ((w << 5) < firstJ) fire &= -1 << (firstJ - (w << 5));
-    while (fire !== 0) {
-      const b = 31 - Math.clz32(fire & -fire);
-      fire &= fire - 1;
-      const i = base + b;
-      if (limitRule && (o3 >>> b) & 1) {
-        const side = (p >>> b) & 1 ? 'above' : 'below';
-        if (set.we1) out.push(sided('we1', i, [i], side, texts));
-        if (set.n1) out.push(sided('n1', i, [i], side, texts));
-      }
-      if (twoOfThree && ((f23u | f23d) >>> b) & 1) {
-        const above = (f23u >>> b) & 1;
-        const pts = windowPoints(above ? U2 : D2, above ? pU2 : pD2, b, i, 3);
-        const side = above ? 'above' : 'below';
-        if (set.we2) out.push(sided('we2', i, pts, side, texts));
-        if (set.n5) out.push(sided('n5', i, set.we2 ? pts.slice() : pts, side, texts));
-      }
-      if (fourOfFive && ((f45u | f45d) >>> b) & 1) {
-        const above = (f45u >>> b) & 1;
-        const pts = windowPoints(above ? U1 : D1, above ? pU1 : pD1, b, i, 5);
-        const side = above ? 'above' : 'below';
-        if (set.we3) out.push(sided('we3', i, pts, side, texts));
-        if (set.n6) out.push(sided('n6', i, set.we3 ? pts.slice() : pts, side, texts));
-      }
-      if (sameSide) {
-        if (set.we4 && ((P8 | M8) >>> b) & 1) out.push(sided('we4', i, run(i, 8), (P8 >>> b) & 1 ? 'above' : 'below', texts));
-        if (set.n2 && ((P9 | M9) >>> b) & 1) out.push(sided('n2', i, run(i, 9), (P9 >>> b) & 1 ? 'above' : 'below', texts));
-      }
-      if (set.n3 && ((rises | falls) >>> b) & 1) out.push(sided('n3', i, run(i, 6), (rises >>> b) & 1 ? 'above' : 'below', texts));
-      if (set.n4 && (turns >>> b) & 1) out.push({ rule: 'n4', index: i, points: run(i, 14), explanation: texts.n4 });
-      if (set.n7 && (inside >>> b) & 1) out.push({ rule: 'n7', index: i, points: run(i, 15), explanation: texts.n7 });
-      if (set.n8 && (outside >>> b) & 1) out.push({ rule: 'n8', index: i, points: run(i, 8), explanation: texts.n8 });
-      if ((cf >>> b) & 1) {
-        const c = companion!;
-        const side = spread[i]! > cUcl ? 'above' : 'below';
-        out.push({ rule: c.rule, index: i, points: c.pair ? [i - 1, i] : [i], side, explanation: explainCompanion(c.name, side), companion: true });
-      }
-    }
-
-    pP = p; pM = m; pU1 = U1; pD1 = D1; pU2 = U2; pD2 = D2; pUP = up; pDN = dn;
-    pP2 = P2; pP4 = P4; pM2 = M2; pM4 = M4; pUP2 = UP2; pDN2 = DN2; pT = T; pT2 = T2; pT4 = T4;
-    pI = I; pI2 = I2; pI4 = I4; pI8 = I8; pO = o1; pO2 = O2; pO4 = O4; pA2 = A2; pA4 = A4; pB2 = B2; pB4 = B4;
-  }
-}
-
-interface Planes {
-  /** Per word, bit b for point contextStart + 32w + b: above the centre (z > 0), */
-  readonly P: Int32Array;
-  /** beyond ±1σ, above the previous value, */
-  readonly O1: Int32Array;
-  readonly UP: Int32Array;
-  /** exactly on the centre (z = 0), level with the previous value (or the first point), */
-  readonly Z: Int32Array;
-  readonly E: Int32Array;
-  /** beyond ±2σ, beyond ±3σ, companion spread beyond its limits. */
-  readonly X2: Int32Array;
-  readonly X3: Int32Array;
-  readonly CF: Int32Array;
-}
-
-let planesCache: Planes | null = null;
-
-// Word planes reused from call to call (the engine runs on one thread; a batch never nests).
-function scratch(W: number): Planes {
-  if (!planesCache || planesCache.P.length < W) {
-    const size = Math.max(W, 2 * (planesCache?.P.length ?? 0), 64);
-    const mk = () => new Int32Array(size);
-    planesCache = { P: mk(), O1: mk(), UP: mk(), Z: mk(), E: mk(), X2: mk(), X3: mk(), CF: mk() };
-  }
-  const c = planesCache;
-  c.Z.fill(0, 0, W);
-  c.E.fill(0, 0, W);
-  c.X2.fill(0, 0, W);
-  c.X3.fill(0, 0, W);
-  c.CF.fill(0, 0, W);
-  return c;
-}
-
-// The one loop over the points: three comparisons that come out either way on noisy data become
-// bits without a branch; the rare cases (beyond ±2σ, ties, a companion signal) take a branch.
-function classify(values: Float64Array, cs: number, n: number, centre: number, a0: number, a1: number, a2: number, a3: number, spread: Float64Array, cUcl: number, cLcl: number, out: Planes): void {
-  const { P, O1, UP, Z, E, X2, X3, CF } = out;
+  const { P, O1, UP, X2, X3, Z, E, CF, M, DN, U1, D1, U2, D2 } = pl;
   const W = (n + 31) >>> 5;
   let prev = values[cs]!; // the first point has no previous one: level
   for (let w = 0; w < W; w++) {
     const base = cs + (w << 5);
     const end = Math.min(32, n - (w << 5));
-    let p = 0, o1 = 0, up = 0;
+    let p = 0, o1 = 0, up = 0, x2 = 0, rare = 0;
     for (let b = 0; b < end; b++) {
       const x = values[base + b]!;
       const d = x - centre;
       const ad = Math.abs(d);
+      const s = spread[base + b]!;
       p |= bit(d > a0) << b;
       o1 |= bit(ad > a1) << b;
       up |= bit(x > prev) << b;
-      const s = spread[base + b]!;
-      if (ad > a2 || ad <= a0 || x === prev || s > cUcl || s < cLcl) {
-        if (ad > a2) {
-          X2[w]! |= 1 << b;
-          if (ad > a3) X3[w]! |= 1 << b;
-        }
-        if (ad <= a0) Z[w]! |= 1 << b;
-        if (x === prev) E[w]! |= 1 << b;
-        if (s > cUcl || s < cLcl) CF[w]! |= 1 << b; // NaN (no spread) never
-      }
+      x2 |= bit(ad > a2) << b;
+      rare |= (bit(ad > a3) | bit(ad <= a0) | bit(x === prev) | bit(s > cUcl) | bit(s < cLcl)) << b; // NaN spread: never
       prev = x;
     }
-    P[w] = p;
-    O1[w] = o1;
-    UP[w] = up;
+    let x3 = 0, z = 0, e = 0, cf = 0;
+    while (rare !== 0) {
+      const b = 31 - Math.clz32(rare & -rare);
+      rare &= rare - 1;
+      const i = base + b;
+      const x = values[i]!;
+      const ad = Math.abs(x - centre);
+      const s = spread[i]!;
+      x3 |= bit(ad > a3) << b;
+      z |= bit(ad <= a0) << b;
+      e |= bit(i === cs || x === values[i - 1]) << b;
+      cf |= bit(s > cUcl || s < cLcl) << b;
+    }
+    const m = ~p & ~z; // below: neither above nor on the centre (bits past the last point are never read)
+    P[w] = p; O1[w] = o1; UP[w] = up; X2[w] = x2; X3[w] = x3; Z[w] = z; E[w] = e; CF[w] = cf;
+    M[w] = m;
+    DN[w] = ~up & ~e;
+    U1[w] = o1 & p;
+    D1[w] = o1 & m;
+    U2[w] = x2 & p;
+    D2[w] = x2 & m;
+  }
+}
+
+// 8 and 9 in a row on one side (doubling: runs of 2, 4, 8).
+function sameSideRuns(pl: Planes, W: number): void {
+  const { P, M, P8, M8, P9, M9 } = pl;
+  let pP = 0, pP2 = 0, pP4 = 0, pM = 0, pM2 = 0, pM4 = 0;
+  for (let w = 0; w < W; w++) {
+    const p = P[w]!, m = M[w]!;
+    const P2 = p & sh(p, pP, 1), P4 = P2 & sh(P2, pP2, 2), p8 = P4 & sh(P4, pP4, 4);
+    const M2 = m & sh(m, pM, 1), M4 = M2 & sh(M2, pM2, 2), m8 = M4 & sh(M4, pM4, 4);
+    P8[w] = p8;
+    M8[w] = m8;
+    P9[w] = p8 & sh(p, pP, 8);
+    M9[w] = m8 & sh(m, pM, 8);
+    pP = p; pP2 = P2; pP4 = P4; pM = m; pM2 = M2; pM4 = M4;
+  }
+}
+
+// 6 in a row rising or falling (5 moves one way) and 14 alternating (13 turns in a row).
+function trends(pl: Planes, W: number): void {
+  const { UP, DN, RISE, FALL, TURN } = pl;
+  let pU = 0, pU2 = 0, pD = 0, pD2 = 0, pT = 0, pT2 = 0, pT4 = 0;
+  for (let w = 0; w < W; w++) {
+    const up = UP[w]!, dn = DN[w]!;
+    const U2 = up & sh(up, pU, 1), U4 = U2 & sh(U2, pU2, 2);
+    const D2 = dn & sh(dn, pD, 1), D4 = D2 & sh(D2, pD2, 2);
+    RISE[w] = U4 & sh(up, pU, 4);
+    FALL[w] = D4 & sh(dn, pD, 4);
+    // A turn: this move and the previous one are both moves and opposite.
+    const t = (up & sh(dn, pD, 1)) | (dn & sh(up, pU, 1));
+    const T2 = t & sh(t, pT, 1), T4 = T2 & sh(T2, pT2, 2), T8 = T4 & sh(T4, pT4, 4);
+    TURN[w] = T8 & sh(T4, pT4, 8);
+    pU = up; pU2 = U2; pD = dn; pD2 = D2; pT = t; pT2 = T2; pT4 = T4;
+  }
+}
+
+// 2 of 3 beyond 2σ and 4 of 5 beyond 1σ on one side, the newest point among them.
+function zoneWindows(pl: Planes, W: number): void {
+  const { U1, D1, U2, D2, F23U, F23D, F45U, F45D } = pl;
+  let pu1 = 0, pd1 = 0, pu2 = 0, pd2 = 0;
+  for (let w = 0; w < W; w++) {
+    const u1 = U1[w]!, d1 = D1[w]!, u2 = U2[w]!, d2 = D2[w]!;
+    F23U[w] = u2 & (sh(u2, pu2, 1) | sh(u2, pu2, 2));
+    F23D[w] = d2 & (sh(d2, pd2, 1) | sh(d2, pd2, 2));
+    F45U[w] = fourOfFiveOf(u1, pu1);
+    F45D[w] = fourOfFiveOf(d1, pd1);
+    pu1 = u1; pd1 = d1; pu2 = u2; pd2 = d2;
+  }
+}
+
+// 15 in a row within ±1σ; 8 in a row beyond ±1σ with points on both sides among them.
+function insideOutside(pl: Planes, W: number): void {
+  const { O1, U1, D1, IN, OUT } = pl;
+  let pI = 0, pI2 = 0, pI4 = 0, pI8 = 0, pO = 0, pO2 = 0, pO4 = 0, pA = 0, pA2 = 0, pA4 = 0, pB = 0, pB2 = 0, pB4 = 0;
+  for (let w = 0; w < W; w++) {
+    const o = O1[w]!, u = U1[w]!, d = D1[w]!;
+    const I = ~o; // 0 before the context start: pI starts at 0
+    const I2 = I & sh(I, pI, 1), I4 = I2 & sh(I2, pI2, 2), I8 = I4 & sh(I4, pI4, 4);
+    IN[w] = I8 & sh(I8, pI8, 7);
+    const O2 = o & sh(o, pO, 1), O4 = O2 & sh(O2, pO2, 2), O8 = O4 & sh(O4, pO4, 4);
+    const A2 = u | sh(u, pA, 1), A4 = A2 | sh(A2, pA2, 2), A8 = A4 | sh(A4, pA4, 4);
+    const B2 = d | sh(d, pB, 1), B4 = B2 | sh(B2, pB2, 2), B8 = B4 | sh(B4, pB4, 4);
+    OUT[w] = O8 & A8 & B8;
+    pI = I; pI2 = I2; pI4 = I4; pI8 = I8; pO = o; pO2 = O2; pO4 = O4; pA = u; pA2 = A2; pA4 = A4; pB = d; pB2 = B2; pB4 = B4;
   }
 }
 
@@ -251,21 +328,24 @@ function run(index: number, length: number): number[] {
 }
 
 type SidedRule = 'we1' | 'n1' | 'we2' | 'n5' | 'we3' | 'n6' | 'we4' | 'n2' | 'n3';
-type Texts = Record<`${SidedRule}${'above' | 'below'}` | 'n4' | 'n7' | 'n8', string>;
+/** Explanations: [above, below] for the rules with a side, one text for the others. */
+type Texts = Record<SidedRule, readonly [string, string]> & Record<'n4' | 'n7' | 'n8', string>;
 
-function sided(rule: SidedRule, index: number, points: number[], side: 'above' | 'below', texts: Texts): Signal {
-  return { rule, index, points, side, explanation: texts[`${rule}${side}`] };
+function sided(rule: SidedRule, index: number, points: number[], above: number, texts: readonly [string, string]): Signal {
+  return above ? { rule, index, points, side: 'above', explanation: texts[0] } : { rule, index, points, side: 'below', explanation: texts[1] };
 }
 
-const SIDED: readonly SidedRule[] = ['we1', 'n1', 'we2', 'n5', 'we3', 'n6', 'we4', 'n2', 'n3'];
 let textCache: Texts | undefined;
 
 // Every explanation a batch can give, looked up once.
 function ruleTexts(): Texts {
   if (textCache) return textCache;
-  const t: Record<string, string> = { n4: explainRule('n4', undefined), n7: explainRule('n7', undefined), n8: explainRule('n8', undefined) };
-  for (const r of SIDED) for (const s of ['above', 'below'] as const) t[r + s] = explainRule(r, s);
-  return (textCache = t as Texts);
+  const two = (r: SidedRule) => [explainRule(r, 'above'), explainRule(r, 'below')] as const;
+  textCache = {
+    we1: two('we1'), n1: two('n1'), we2: two('we2'), n5: two('n5'), we3: two('we3'), n6: two('n6'), we4: two('we4'), n2: two('n2'), n3: two('n3'),
+    n4: explainRule('n4', undefined), n7: explainRule('n7', undefined), n8: explainRule('n8', undefined),
+  };
+  return textCache;
 }
 
 // z = d/sigma (rounded) is non-decreasing in d and odd, so {d ≥ 0 : d/sigma ≤ k} is [0, A(k)].
