@@ -24,7 +24,8 @@ export const CONTEXT = 16;
 
 /** The companion chart (MR, R or s) checked in the same pass: a spread beyond its limits signals. */
 export interface CompanionCheck {
-  readonly spread: Float64Array;
+  /** The spread column; null: the moving range, taken from the values. */
+  readonly spread: Float64Array | null;
   readonly ucl: number;
   /** No lower limit when ≤ 0 (a spread below zero cannot occur). */
   readonly lcl: number;
@@ -115,7 +116,7 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
       if (rOut & (outside >>> b) & 1) out.push({ rule: 'n8', index: i, points: run(i, 8), explanation: t.n8 });
       if ((cf >>> b) & 1) {
         const c = companion!;
-        const above = c.spread[i]! > c.ucl;
+        const above = (c.spread ? c.spread[i]! : Math.abs(values[i]! - values[i - 1]!)) > c.ucl;
         out.push({ rule: c.rule, index: i, points: c.pair ? [i - 1, i] : [i], side: above ? 'above' : 'below', explanation: above ? cAbove : cBelow, companion: true });
       }
     }
@@ -185,7 +186,8 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
   const a1 = zoneBound(sigma, 1);
   const a2 = zoneBound(sigma, 2);
   const a3 = zoneBound(sigma, 3);
-  const spread = companion ? companion.spread : values;
+  const movingRange = companion !== undefined && companion.spread === null;
+  const spread = companion?.spread ?? values;
   const cUcl = companion ? companion.ucl : Infinity;
   const cLcl = companion && companion.lcl > 0 ? companion.lcl : -Infinity;
   const { P, O1, UP, X2, X3, Z, E, CF, M, DN, U1, D1, U2, D2 } = pl;
@@ -199,7 +201,7 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
       const x = values[base + b]!;
       const d = x - centre;
       const ad = Math.abs(d);
-      const s = spread[base + b]!;
+      const s = movingRange ? Math.abs(x - prev) : spread[base + b]!;
       p |= bit(d > a0) << b;
       o1 |= bit(ad > a1) << b;
       up |= bit(x > prev) << b;
@@ -214,7 +216,7 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
       const i = base + b;
       const x = values[i]!;
       const ad = Math.abs(x - centre);
-      const s = spread[i]!;
+      const s = !movingRange ? spread[i]! : i === cs ? NaN : Math.abs(x - values[i - 1]!);
       x3 |= bit(ad > a3) << b;
       z |= bit(ad <= a0) << b;
       e |= bit(i === cs || x === values[i - 1]) << b;

@@ -203,7 +203,7 @@ export class Evaluator {
     const sigs = this.sigs;
     const smoother = this.smoother;
     const companion = this.hasCompanion && this.companionRule !== null;
-    const { value: values, size: sizes, spread: spreads } = this.stats;
+    const { value: values, size: sizes } = this.stats; // `spread` is read only where needed (it may be filled in on read)
     if (to - from >= BATCH_MIN && !smoother && this.stats.sameSize(from, to)) {
       // Same limits for the whole run of points: detect the rules word-parallel (bit-rules.ts),
       // the companion chart in the same pass.
@@ -215,7 +215,7 @@ export class Evaluator {
       }
       if (lim.sigma > 0 && lim.sigma < Infinity) {
         const start = this.phaseStartOf(from);
-        const check = companion ? { spread: spreads, ucl: lim.cUcl, lcl: lim.cLcl, rule: this.companionRule!, name: COMPANION_NAME[kind] ?? 'spread', pair: kind === 'xmr' } : undefined;
+        const check = companion ? { spread: kind === 'xmr' ? null : this.stats.spread, ucl: lim.cUcl, lcl: lim.cLcl, rule: this.companionRule!, name: COMPANION_NAME[kind] ?? 'spread', pair: kind === 'xmr' } : undefined;
         detectBatch(values, Math.max(start, from - CONTEXT), from, to, lim.centre, lim.sigma, rules.set, sigs, check);
         // Leave the point-by-point evaluator in the state it would have after `to`: replaying the
         // last CONTEXT points from a reset is enough, as every counter only matters up to 15.
@@ -238,7 +238,7 @@ export class Evaluator {
       }
       rules.push(i, value, (value - lim.centre) / lim.sigma, sigs);
       if (companion) {
-        const spread = spreads[i]!;
+        const spread = this.stats.spread[i]!;
         if (spread > lim.cUcl || (lim.cLcl > 0 && spread < lim.cLcl)) this.companionSignal(i, spread > lim.cUcl ? 'above' : 'below');
       }
     }

@@ -33,7 +33,12 @@ export class SubgroupStats {
   size: Float64Array = ones(0);
   /** Defects or defectives (attribute charts; empty for the others). */
   count: Float64Array = new Float64Array(0);
-  spread: Float64Array = new Float64Array(0);
+  private spreadColumn: Float64Array = new Float64Array(0);
+  // Spreads [0, spreadDone) are stored. Those after it came in by pushValues() and follow from
+  // the values (a moving range, NaN at a phase start or for X̄ charts): they are filled in on
+  // the first read of `spread`, so a batch of individuals does not write a column it may never need.
+  private spreadDone = 0;
+  private readonly pendingStarts: number[] = []; // phase starts among the pending spreads
   /** 1 where the subgroup is excluded. Read-only outside this class. */
   excluded: Uint8Array = zeros(0);
   private ownSize = false; // false: `size` is the shared column of ones
@@ -90,7 +95,7 @@ export class SubgroupStats {
     if (size !== 1 && !this.ownSize) this.ownSizeColumn();
     if (this.ownSize) this.size[i] = size;
     if (this.isAttribute) this.count[i] = count;
-    this.spread[i] = spread;
+    this.storeSpread(i, spread);
     if (sg.excluded === true && !this.ownExcluded) this.ownExcludedColumn();
     if (this.ownExcluded) this.excluded[i] = sg.excluded === true ? 1 : 0;
     if (sg.exclusionReason !== undefined) this.reason.set(i, sg.exclusionReason);
@@ -106,7 +111,7 @@ export class SubgroupStats {
     if (this.isAttribute) throw new EngineInputError(`a ${this.kind} chart needs counts, not measured values`);
     this.value[i] = x;
     if (this.ownSize) this.size[i] = 1;
-    this.spread[i] = this.usesMovingRange && i > phaseStart ? Math.abs(x - this.value[i - 1]!) : NaN;
+    this.storeSpread(i, this.usesMovingRange && i > phaseStart ? Math.abs(x - this.value[i - 1]!) : NaN);
     if (this.ownExcluded) this.excluded[i] = 0;
     this.length = i + 1;
   }
@@ -117,10 +122,10 @@ export class SubgroupStats {
     const first = this.length;
     this.reserve(first + to - from);
     const v = this.value;
-    const sp = this.spread;
     const end = first + to - from;
-    // Spreads: moving ranges from the second point of the phase on; NaN before (and for X̄ charts).
+    // Moving ranges from the second point of the phase on (none for X̄ charts); not stored here.
     const mrFrom = this.usesMovingRange ? Math.min(end, Math.max(first, phaseStart + 1)) : end;
+    if (phaseStart >= first && phaseStart < end) this.pendingStarts.push(phaseStart);
     let prev = first > 0 ? v[first - 1]! : NaN;
     // Σx doubles as the check that every value is finite (a NaN or ±Infinity makes it non-finite);
     // the baseline estimate reuses both sums when its range is this batch (same order of addition).
@@ -132,7 +137,6 @@ export class SubgroupStats {
       const x = values[j]!;
       sum += x;
       v[i] = x;
-      sp[i] = NaN;
       prev = x;
     }
     if (i === first && i < end) {
@@ -140,7 +144,6 @@ export class SubgroupStats {
       const x = values[j]!;
       sum += x;
       v[i] = x;
-      sp[i] = Math.abs(x - prev);
       prev = x;
       i++;
       j++;
@@ -150,9 +153,7 @@ export class SubgroupStats {
       const x = values[j]!;
       sum += x;
       v[i] = x;
-      const m = Math.abs(x - prev);
-      sp[i] = m;
-      mrSum += m;
+      mrSum += Math.abs(x - prev);
       prev = x;
     }
     if (!Number.isFinite(sum)) {
@@ -206,7 +207,6 @@ export class SubgroupStats {
     this.value = grow(this.value, n);
     this.size = this.ownSize ? grow(this.size, n) : ones(this.value.length);
     if (this.isAttribute) this.count = grow(this.count, n);
-    this.spread = grow(this.spread, n);
     this.excluded = this.ownExcluded ? growBytes(this.excluded, n) : zeros(this.value.length);
   }
 
@@ -221,6 +221,37 @@ export class SubgroupStats {
   private ownExcludedColumn(): void {
     this.excluded = new Uint8Array(this.value.length);
     this.ownExcluded = true;
+  }
+
+  /** R (X̄-R), s (X̄-S) or the moving range (individuals, EWMA, CUSUM); NaN where there is none. Read-only. */
+  get spread(): Float64Array {
+    if (this.spreadDone < this.length) this.fillSpread();
+    return this.spreadColumn;
+  }
+
+  private storeSpread(i: number, spread: number): void {
+    if (this.spreadDone < i) this.fillSpread();
+    this.spreadColumn = grow(this.spreadColumn, this.value.length);
+    this.spreadColumn[i] = spread;
+    this.spreadDone = i + 1;
+  }
+
+  // The pending spreads, as push() would have stored them.
+  private fillSpread(): void {
+    const n = this.length;
+    const sp = (this.spreadColumn = grow(this.spreadColumn, this.value.length));
+    const v = this.value;
+    let k = 0;
+    const starts = this.pendingStarts;
+    for (let i = this.spreadDone; i < n; i++) {
+      if (!this.usesMovingRange) sp[i] = NaN;
+      else if (k < starts.length && starts[k] === i) {
+        sp[i] = NaN;
+        k++;
+      } else sp[i] = Math.abs(v[i]! - v[i - 1]!);
+    }
+    starts.length = 0;
+    this.spreadDone = n;
   }
 
   /** Every subgroup so far has one value and none is excluded. */
