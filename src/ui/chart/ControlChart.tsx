@@ -176,10 +176,11 @@ export function ControlChart(props: ControlChartProps) {
     };
     const u = new uPlot(opts, buildData(latest.current), el);
     plot.current = u;
-    // A tap picks the nearest point (uPlot tracks the cursor's nearest index).
-    const pick = () => {
-      const i = u.cursor.idx;
-      if (i !== null && i !== undefined) latest.current.onPick?.(i);
+    // A tap picks the nearest point, from where the tap landed (not from the cursor, which a tap
+    // on the spot of the previous one does not move).
+    const pick = (e: MouseEvent) => {
+      const i = u.posToIdx(e.clientX - u.over.getBoundingClientRect().left);
+      if (i >= 0 && i < latest.current.points.length) latest.current.onPick?.(i);
     };
     u.over.addEventListener('click', pick);
     const ro = new ResizeObserver(() => u.setSize({ width: el.clientWidth || 600, height: latest.current.height }));
