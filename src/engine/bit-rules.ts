@@ -187,9 +187,19 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
   const a2 = zoneBound(sigma, 2);
   const a3 = zoneBound(sigma, 3);
   const movingRange = companion !== undefined && companion.spread === null;
-  const spread = companion?.spread ?? values;
+  const spreadColumn = companion?.spread ?? null; // R or s: compared point by point
+  const spread = spreadColumn ?? values;
   const cUcl = companion ? companion.ucl : Infinity;
   const cLcl = companion && companion.lcl > 0 ? companion.lcl : -Infinity;
+  // Rare-case tests as one comparison each, sorted out exactly below: |d| outside (A(0), A(3)]
+  // (on the centre or beyond ±3σ) gives |(|d| − zMid)| ≥ zHalf, and so does a point exactly at
+  // A(3) (harmless); a move from the previous value outside (0, limit] (a tie, or a moving range
+  // beyond its limit) gives |(|x − prev| − mMid)| ≥ mMid. Both follow from rounding being
+  // monotone. The limit without a moving-range chart is far beyond any move of the data.
+  const zMid = (a0 + a3) / 2;
+  const zHalf = Math.min(zMid - a0, a3 - zMid);
+  const mLimit = movingRange ? cUcl : 1e6 * sigma;
+  const mMid = mLimit > 0 && mLimit < Infinity ? mLimit / 2 : Infinity; // Infinity: every point to the exact tests
   const { P, O1, UP, X2, X3, Z, E, CF, M, DN, U1, D1, U2, D2 } = pl;
   const W = (n + 31) >>> 5;
   let prev = values[cs]!; // the first point has no previous one: level
@@ -197,17 +207,33 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
     const base = cs + (w << 5);
     const end = Math.min(32, n - (w << 5));
     let p = 0, o1 = 0, up = 0, x2 = 0, rare = 0;
-    for (let b = 0; b < end; b++) {
-      const x = values[base + b]!;
-      const d = x - centre;
-      const ad = Math.abs(d);
-      const s = movingRange ? Math.abs(x - prev) : spread[base + b]!;
-      p |= bit(d > a0) << b;
-      o1 |= bit(ad > a1) << b;
-      up |= bit(x > prev) << b;
-      x2 |= bit(ad > a2) << b;
-      rare |= (bit(ad > a3) | bit(ad <= a0) | bit(x === prev) | bit(s > cUcl) | bit(s < cLcl)) << b; // NaN spread: never
-      prev = x;
+    if (spreadColumn === null) {
+      for (let b = 0; b < end; b++) {
+        const x = values[base + b]!;
+        const d = x - centre;
+        const ad = Math.abs(d);
+        const dx = x - prev; // > 0 exactly when x > prev, 0 exactly when equal
+        p |= bit(d > a0) << b;
+        o1 |= bit(ad > a1) << b;
+        up |= bit(dx > 0) << b;
+        x2 |= bit(ad > a2) << b;
+        rare |= (bit(Math.abs(ad - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(dx) - mMid) < mMid))) << b;
+        prev = x;
+      }
+    } else {
+      for (let b = 0; b < end; b++) {
+        const x = values[base + b]!;
+        const d = x - centre;
+        const ad = Math.abs(d);
+        const dx = x - prev;
+        const s = spreadColumn[base + b]!;
+        p |= bit(d > a0) << b;
+        o1 |= bit(ad > a1) << b;
+        up |= bit(dx > 0) << b;
+        x2 |= bit(ad > a2) << b;
+        rare |= (bit(Math.abs(ad - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(dx) - mMid) < mMid)) | bit(s > cUcl) | bit(s < cLcl)) << b; // NaN: never
+        prev = x;
+      }
     }
     let x3 = 0, z = 0, e = 0, cf = 0;
     while (rare !== 0) {
