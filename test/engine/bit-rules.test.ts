@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { ALL_RULES, Evaluator, type RuleCode, type Signal } from '../../src/engine';
-import { CONTEXT, detectBatch } from '../../src/engine/bit-rules';
+import { CONTEXT, detectBatch, zoneBound } from '../../src/engine/bit-rules';
 import { ruleSet } from '../../src/engine/rule-signals';
 import { RuleEvaluator } from '../../src/engine/rules';
 
@@ -58,6 +58,58 @@ describe('Evaluator after a batch', () => {
         expect(parts.analysis().signals).toEqual(whole.analysis().signals);
       }),
       { numRuns: 200, seed: 7 },
+    );
+  });
+});
+
+// The batch compares x − centre with a bound A(k) per zone line instead of dividing each point
+// by sigma; A(k) must give exactly the comparisons of the computed z = (x − centre)/sigma.
+function nextUp(x: number): number {
+  const f = new Float64Array([x]);
+  const b = new BigInt64Array(f.buffer);
+  b[0] = b[0]! + (x >= 0 ? 1n : -1n);
+  return f[0]!;
+}
+function nextDown(x: number): number {
+  return -nextUp(-x);
+}
+
+describe('zoneBound()', () => {
+  it('is the largest d ≥ 0 with d / sigma ≤ k', () => {
+    fc.assert(
+      fc.property(fc.double({ min: 1e-300, max: 1e300, noNaN: true }), fc.constantFrom(0, 1, 2, 3), (sigma, k) => {
+        const a = zoneBound(sigma, k);
+        expect(a / sigma <= k).toBe(true);
+        expect(nextUp(a) / sigma > k).toBe(true);
+      }),
+      { numRuns: 2000, seed: 20261202 },
+    );
+  });
+});
+
+describe('detectBatch() at the zone lines of any centre and sigma', () => {
+  it('matches the point-by-point evaluator on values a few units in the last place from each line', () => {
+    const point = (centre: number, sigma: number) =>
+      fc.tuple(fc.constantFrom(-3, -2, -1, 0, 1, 2, 3), fc.integer({ min: -2, max: 2 }), fc.double({ min: -0.5, max: 0.5, noNaN: true })).map(([k, ulps, jitter]) => {
+        let x = ulps === 0 && jitter !== 0 ? centre + (k + jitter) * sigma : centre + k * sigma;
+        for (let u = 0; u < Math.abs(ulps); u++) x = ulps > 0 ? nextUp(x) : nextDown(x);
+        return x;
+      });
+    const case_ = fc
+      .tuple(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.double({ min: 1e-6, max: 1e4, noNaN: true }))
+      .chain(([centre, sigma]) => fc.tuple(fc.constant(centre), fc.constant(sigma), fc.array(point(centre, sigma), { minLength: 1, maxLength: 200 })));
+    fc.assert(
+      fc.property(case_, fc.subarray([...ALL_RULES], { minLength: 1 }), fc.nat(), ([centre, sigma, xs], rules, f) => {
+        const values = Float64Array.from(xs);
+        const from = f % xs.length;
+        const out: Signal[] = [];
+        detectBatch(values, Math.max(0, from - CONTEXT), from, xs.length, centre, sigma, ruleSet(rules), out);
+        const ev = new RuleEvaluator(rules);
+        const ref: Signal[] = [];
+        ev.pushRun(values, 0, xs.length, centre, sigma, ref);
+        expect(out).toEqual(ref.filter((s) => s.index >= from));
+      }),
+      { numRuns: 300, seed: 11 },
     );
   });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { analyze, Evaluator, type AnalysisInput } from '../../src/engine';
+import { ALL_RULES, analyze, Evaluator, type AnalysisInput } from '../../src/engine';
 import { PISTON_RINGS } from './fixtures/piston-rings';
 import { CONCENTRATION } from './fixtures/concentration';
 
@@ -64,6 +64,29 @@ describe('analyze() with the individuals form', () => {
     const b = analyze({ chart: 'xmr', subgroups: xs.map((x) => ({ values: [x] })), phases, rules: ['n1', 'n2', 'n3', 'n5', 'n6'] });
     expect(a).toEqual(b);
     expect(JSON.parse(JSON.stringify(a))).toEqual(JSON.parse(JSON.stringify(b)));
+  });
+
+  it('gives the same result as appending the values one at a time (baseline sums, moving ranges filled in on read, companion signals)', () => {
+    const next = lcg(7);
+    // Noise with a shift, a trend, a run of alternations, a wild point and repeated values.
+    const xs = Array.from({ length: 400 }, (_, i) => {
+      const base = 10 + (next() - 0.5) * 2 + (i > 250 ? 1.2 : 0) + (i >= 120 && i < 130 ? (i - 120) * 0.3 : 0);
+      const alt = i >= 180 && i < 200 ? (i % 2 === 0 ? 0.8 : -0.8) : 0;
+      const wild = i === 300 ? 6 : 0;
+      return i >= 340 && i < 344 ? 10 : base + alt + wild;
+    });
+    for (const phases of [undefined, [{ start: 0, baselineCount: 50 }, { start: 150, baselineCount: 40 }, { start: 320 }]]) {
+      const config = { chart: 'xmr' as const, rules: [...ALL_RULES], ...(phases ? { phases } : {}) };
+      const batch = analyze({ ...config, individuals: Float64Array.from(xs) });
+      const one = new Evaluator(config);
+      for (const x of xs) one.append({ values: [x] });
+      const single = one.analysis();
+      expect(batch.signals.some((s) => s.companion)).toBe(true);
+      expect(batch.signals.length).toBeGreaterThan(20);
+      expect(batch.phases).toEqual(single.phases);
+      expect(batch.signals).toEqual(single.signals);
+      expect(batch.points).toEqual(single.points);
+    }
   });
 
   it('rejects both forms at once, and values that are not finite', () => {
