@@ -108,12 +108,12 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
         if (set.we3) out.push(sided('we3', i, pts, above, t.we3));
         if (set.n6) out.push(sided('n6', i, set.we3 ? pts.slice() : pts, above, t.n6));
       }
-      if (r8 & (s8 >>> b) & 1) out.push(sided('we4', i, run(i, 8), (p8 >>> b) & 1, t.we4));
-      if (r9 & (s9 >>> b) & 1) out.push(sided('n2', i, run(i, 9), (p9 >>> b) & 1, t.n2));
-      if (rTrend & (trend >>> b) & 1) out.push(sided('n3', i, run(i, 6), (rise >>> b) & 1, t.n3));
-      if (rTurn & (turn >>> b) & 1) out.push({ rule: 'n4', index: i, points: run(i, 14), explanation: t.n4 });
-      if (rIn & (inside >>> b) & 1) out.push({ rule: 'n7', index: i, points: run(i, 15), explanation: t.n7 });
-      if (rOut & (outside >>> b) & 1) out.push({ rule: 'n8', index: i, points: run(i, 8), explanation: t.n8 });
+      if (r8 & (s8 >>> b) & 1) out.push(sided('we4', i, run8(i), (p8 >>> b) & 1, t.we4));
+      if (r9 & (s9 >>> b) & 1) out.push(sided('n2', i, run9(i), (p9 >>> b) & 1, t.n2));
+      if (rTrend & (trend >>> b) & 1) out.push(sided('n3', i, run6(i), (rise >>> b) & 1, t.n3));
+      if (rTurn & (turn >>> b) & 1) out.push({ rule: 'n4', index: i, points: run14(i), explanation: t.n4 });
+      if (rIn & (inside >>> b) & 1) out.push({ rule: 'n7', index: i, points: run15(i), explanation: t.n7 });
+      if (rOut & (outside >>> b) & 1) out.push({ rule: 'n8', index: i, points: run8(i), explanation: t.n8 });
       if ((cf >>> b) & 1) {
         const c = companion!;
         const above = (c.spread ? c.spread[i]! : Math.abs(values[i]! - values[i - 1]!)) > c.ucl;
@@ -349,10 +349,22 @@ function windowPoints(cur: number, prv: number, b: number, i: number, w: number)
   return pts;
 }
 
-function run(index: number, length: number): number[] {
-  const pts = new Array<number>(length);
-  for (let k = 0; k < length; k++) pts[k] = index - length + 1 + k;
-  return pts;
+// The points of a run of 6, 8, 9, 14 or 15 ending at i, oldest first (array literals: one
+// allocation each, of a fixed size).
+function run6(i: number): number[] {
+  return [i - 5, i - 4, i - 3, i - 2, i - 1, i];
+}
+function run8(i: number): number[] {
+  return [i - 7, i - 6, i - 5, i - 4, i - 3, i - 2, i - 1, i];
+}
+function run9(i: number): number[] {
+  return [i - 8, i - 7, i - 6, i - 5, i - 4, i - 3, i - 2, i - 1, i];
+}
+function run14(i: number): number[] {
+  return [i - 13, i - 12, i - 11, i - 10, i - 9, i - 8, i - 7, i - 6, i - 5, i - 4, i - 3, i - 2, i - 1, i];
+}
+function run15(i: number): number[] {
+  return [i - 14, i - 13, i - 12, i - 11, i - 10, i - 9, i - 8, i - 7, i - 6, i - 5, i - 4, i - 3, i - 2, i - 1, i];
 }
 
 type SidedRule = 'we1' | 'n1' | 'we2' | 'n5' | 'we3' | 'n6' | 'we4' | 'n2' | 'n3';

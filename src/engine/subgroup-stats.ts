@@ -127,32 +127,39 @@ export class SubgroupStats {
     const mrFrom = this.usesMovingRange ? Math.min(end, Math.max(first, phaseStart + 1)) : end;
     if (phaseStart >= first && phaseStart < end) this.pendingStarts.push(phaseStart);
     let prev = first > 0 ? v[first - 1]! : NaN;
+    // A typed array is copied in one block and read back; other arrays value by value.
+    let src: ArrayLike<number> = values;
+    let off = from - first; // point i is src[i + off]
+    if (values instanceof Float64Array) {
+      v.set(values.subarray(from, to), first);
+      src = v;
+      off = 0;
+    }
+    const copy = src !== v;
     // Σx doubles as the check that every value is finite (a NaN or ±Infinity makes it non-finite);
     // the baseline estimate reuses both sums when its range is this batch (same order of addition).
     let sum = 0;
     let mrSum = 0;
     let i = first;
-    let j = from;
-    for (; i < mrFrom; j++, i++) {
-      const x = values[j]!;
+    for (; i < mrFrom; i++) {
+      const x = src[i + off]!;
       sum += x;
-      v[i] = x;
+      if (copy) v[i] = x;
       prev = x;
     }
     if (i === first && i < end) {
       // the moving range to the point before this batch is not the batch's own
-      const x = values[j]!;
+      const x = src[i + off]!;
       sum += x;
-      v[i] = x;
+      if (copy) v[i] = x;
       prev = x;
       i++;
-      j++;
     }
     const mrCount = end - i;
-    for (; i < end; j++, i++) {
-      const x = values[j]!;
+    for (; i < end; i++) {
+      const x = src[i + off]!;
       sum += x;
-      v[i] = x;
+      if (copy) v[i] = x;
       mrSum += Math.abs(x - prev);
       prev = x;
     }
