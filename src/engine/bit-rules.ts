@@ -48,10 +48,11 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   const W = (n + 31) >>> 5;
   const pl = scratch(W);
   classify(values, contextStart, n, centre, sigma, companion, pl);
-  sameSideRuns(pl, W);
-  trends(pl, W);
-  zoneWindows(pl, W);
-  insideOutside(pl, W);
+  // Only the patterns of the selected rules (a plane left stale is masked out below).
+  if (set.we4 || set.n2) sameSideRuns(pl, W);
+  if (set.n3 || set.n4) trends(pl, W);
+  if (set.we2 || set.n5 || set.we3 || set.n6) zoneWindows(pl, W);
+  if (set.n7 || set.n8) insideOutside(pl, W);
   const F = pl.F;
   const firstJ = from - contextStart; // bits below this never fire
   const { X3, F23U, F23D, F45U, F45D, P8, M8, P9, M9, RISE, FALL, TURN, IN, OUT, CF } = pl;
