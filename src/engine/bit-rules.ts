@@ -209,17 +209,17 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
     const end = Math.min(32, n - (w << 5));
     let p = 0, o1 = 0, up = 0, x2 = 0, rare = 0;
     if (spreadColumn === null) {
-      for (let b = 0; b < end; b++) {
-        const x = values[base + b]!;
+      // From the newest point of the word back, so each flag shifts in at bit 0.
+      for (let i = base + end - 1; i >= base; i--) {
+        const x = values[i]!;
         const d = x - centre;
         const ad = Math.abs(d);
-        const dx = x - prev; // > 0 exactly when x > prev, 0 exactly when equal
-        p |= bit(d > a0) << b;
-        o1 |= bit(ad > a1) << b;
-        up |= bit(dx > 0) << b;
-        x2 |= bit(ad > a2) << b;
-        rare |= (bit(Math.abs(ad - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(dx) - mMid) < mMid))) << b;
-        prev = x;
+        const dx = i > cs ? x - values[i - 1]! : 0; // > 0 exactly when x > prev, 0 exactly when equal
+        p = (p << 1) | bit(d > a0);
+        o1 = (o1 << 1) | bit(ad > a1);
+        up = (up << 1) | bit(dx > 0);
+        x2 = (x2 << 1) | bit(ad > a2);
+        rare = (rare << 1) | bit(Math.abs(ad - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(dx) - mMid) < mMid));
       }
     } else {
       for (let b = 0; b < end; b++) {
