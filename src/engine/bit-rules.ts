@@ -210,16 +210,38 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
     let p = 0, o1 = 0, up = 0, x2 = 0, rare = 0;
     if (spreadColumn === null) {
       // From the newest point of the word back, so each flag shifts in at bit 0.
-      for (let i = base + end - 1; i >= base; i--) {
+      let i = base + end - 1;
+      if ((end & 1) === 1) {
         const x = values[i]!;
         const d = x - centre;
         const ad = Math.abs(d);
         const dx = i > cs ? x - values[i - 1]! : 0; // > 0 exactly when x > prev, 0 exactly when equal
-        p = (p << 1) | bit(d > a0);
-        o1 = (o1 << 1) | bit(ad > a1);
-        up = (up << 1) | bit(dx > 0);
-        x2 = (x2 << 1) | bit(ad > a2);
-        rare = (rare << 1) | bit(Math.abs(ad - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(dx) - mMid) < mMid));
+        p = bit(d > a0);
+        o1 = bit(ad > a1);
+        up = bit(dx > 0);
+        x2 = bit(ad > a2);
+        rare = bit(Math.abs(ad - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(dx) - mMid) < mMid));
+        i--;
+      }
+      // Two points a turn (i and i − 1; i − 1 > cs except for the first pair of the context).
+      for (; i > base; i -= 2) {
+        const x = values[i]!;
+        const y = values[i - 1]!;
+        const dX = x - centre;
+        const dY = y - centre;
+        const aX = Math.abs(dX);
+        const aY = Math.abs(dY);
+        const mX = x - y;
+        const mY = i - 1 > cs ? y - values[i - 2]! : 0;
+        p = (p << 2) | (bit(dX > a0) << 1) | bit(dY > a0);
+        o1 = (o1 << 2) | (bit(aX > a1) << 1) | bit(aY > a1);
+        up = (up << 2) | (bit(mX > 0) << 1) | bit(mY > 0);
+        x2 = (x2 << 2) | (bit(aX > a2) << 1) | bit(aY > a2);
+        rare =
+          (rare << 2) |
+          ((bit(Math.abs(aX - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(mX) - mMid) < mMid))) << 1) |
+          bit(Math.abs(aY - zMid) >= zHalf) |
+          bit(!(Math.abs(Math.abs(mY) - mMid) < mMid));
       }
     } else {
       for (let b = 0; b < end; b++) {
