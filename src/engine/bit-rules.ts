@@ -47,16 +47,9 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   if (!(sigma > 0 && sigma < Infinity && Number.isFinite(centre))) throw new Error('detectBatch needs a finite centre and a positive finite sigma');
   const W = (n + 31) >>> 5;
   const pl = scratch(W);
-  classify(values, contextStart, n, centre, sigma, companion, pl);
-  // Only the patterns of the selected rules (a plane left stale is masked out below).
-  if (set.we4 || set.n2) sameSideRuns(pl, W);
-  if (set.n3 || set.n4) trends(pl, W);
-  if (set.we2 || set.n5 || set.we3 || set.n6) zoneWindows(pl, W);
-  if (set.n7 || set.n8) insideOutside(pl, W);
-  const F = pl.F;
-  const firstJ = from - contextStart; // bits below this never fire
-  const { X3, F23U, F23D, F45U, F45D, P8, M8, P9, M9, RISE, FALL, TURN, IN, OUT, CF } = pl;
-  const r1 = set.we1 || set.n1 ? -1 : 0; // all bits or none: the union below has no branch
+  // Each rule adds the points where it fires to F, masked by whether it is selected (all bits
+  // or none: no branch per word); only the patterns of the selected rules are computed.
+  const r1 = set.we1 || set.n1 ? -1 : 0;
   const r23 = set.we2 || set.n5 ? -1 : 0;
   const r45 = set.we3 || set.n6 ? -1 : 0;
   const r8 = set.we4 ? -1 : 0;
@@ -65,11 +58,14 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   const rTurn = set.n4 ? -1 : 0;
   const rIn = set.n7 ? -1 : 0;
   const rOut = set.n8 ? -1 : 0;
-  for (let w = 0; w < W; w++) {
-    F[w] =
-      (r1 & X3[w]!) | (r23 & (F23U[w]! | F23D[w]!)) | (r45 & (F45U[w]! | F45D[w]!)) | (r8 & (P8[w]! | M8[w]!)) | (r9 & (P9[w]! | M9[w]!)) |
-      (rTrend & (RISE[w]! | FALL[w]!)) | (rTurn & TURN[w]!) | (rIn & IN[w]!) | (rOut & OUT[w]!) | CF[w]!;
-  }
+  classify(values, contextStart, n, centre, sigma, companion, r1, pl);
+  if (r8 | r9) sameSideRuns(pl, W, r8, r9);
+  if (rTrend | rTurn) trends(pl, W, rTrend, rTurn);
+  if (r23 | r45) zoneWindows(pl, W, r23, r45);
+  if (rIn | rOut) insideOutside(pl, W, rIn, rOut);
+  const F = pl.F;
+  const firstJ = from - contextStart; // bits below this never fire
+  const { X3, F23U, F23D, F45U, F45D, P8, M8, P9, M9, RISE, FALL, TURN, IN, OUT, CF } = pl;
   // Bits past the last point and before `from` never fire.
   if ((n & 31) !== 0) F[W - 1]! &= (1 << (n & 31)) - 1;
   for (let w = 0; w < firstJ >>> 5; w++) F[w] = 0;
@@ -182,7 +178,7 @@ function scratch(W: number): Planes {
 // The one loop over the points. The comparisons that come out either way on noisy data become
 // bits without a branch; the rare cases (beyond ±3σ, on the centre, level with the previous
 // value, a companion signal) are marked in one word and sorted out afterwards.
-function classify(values: Float64Array, cs: number, n: number, centre: number, sigma: number, companion: CompanionCheck | undefined, pl: Planes): void {
+function classify(values: Float64Array, cs: number, n: number, centre: number, sigma: number, companion: CompanionCheck | undefined, r1: number, pl: Planes): void {
   const a0 = zoneBound(sigma, 0);
   const a1 = zoneBound(sigma, 1);
   const a2 = zoneBound(sigma, 2);
@@ -201,7 +197,7 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
   const zHalf = Math.min(zMid - a0, a3 - zMid);
   const mLimit = movingRange ? cUcl : 1e6 * sigma;
   const mMid = mLimit > 0 && mLimit < Infinity ? mLimit / 2 : Infinity; // Infinity: every point to the exact tests
-  const { P, O1, UP, X2, X3, Z, E, CF, M, DN, U1, D1, U2, D2 } = pl;
+  const { P, O1, UP, X2, X3, Z, E, CF, M, DN, U1, D1, U2, D2, F } = pl;
   const W = (n + 31) >>> 5;
   let prev = values[cs]!; // the first point has no previous one: level
   for (let w = 0; w < W; w++) {
@@ -273,6 +269,7 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
     }
     const m = ~p & ~z; // below: neither above nor on the centre (bits past the last point are never read)
     P[w] = p; O1[w] = o1; UP[w] = up; X2[w] = x2; X3[w] = x3; Z[w] = z; E[w] = e; CF[w] = cf;
+    F[w] = cf | (r1 & x3);
     M[w] = m;
     DN[w] = ~up & ~e;
     U1[w] = o1 & p;
@@ -283,66 +280,77 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
 }
 
 // 8 and 9 in a row on one side (doubling: runs of 2, 4, 8).
-function sameSideRuns(pl: Planes, W: number): void {
-  const { P, M, P8, M8, P9, M9 } = pl;
+function sameSideRuns(pl: Planes, W: number, r8: number, r9: number): void {
+  const { P, M, P8, M8, P9, M9, F } = pl;
   let pP = 0, pP2 = 0, pP4 = 0, pM = 0, pM2 = 0, pM4 = 0;
   for (let w = 0; w < W; w++) {
     const p = P[w]!, m = M[w]!;
     const P2 = p & sh(p, pP, 1), P4 = P2 & sh(P2, pP2, 2), p8 = P4 & sh(P4, pP4, 4);
     const M2 = m & sh(m, pM, 1), M4 = M2 & sh(M2, pM2, 2), m8 = M4 & sh(M4, pM4, 4);
+    const p9 = p8 & sh(p, pP, 8), m9 = m8 & sh(m, pM, 8);
     P8[w] = p8;
     M8[w] = m8;
-    P9[w] = p8 & sh(p, pP, 8);
-    M9[w] = m8 & sh(m, pM, 8);
+    P9[w] = p9;
+    M9[w] = m9;
+    F[w]! |= (r8 & (p8 | m8)) | (r9 & (p9 | m9));
     pP = p; pP2 = P2; pP4 = P4; pM = m; pM2 = M2; pM4 = M4;
   }
 }
 
 // 6 in a row rising or falling (5 moves one way) and 14 alternating (13 turns in a row).
-function trends(pl: Planes, W: number): void {
-  const { UP, DN, RISE, FALL, TURN } = pl;
+function trends(pl: Planes, W: number, rTrend: number, rTurn: number): void {
+  const { UP, DN, RISE, FALL, TURN, F } = pl;
   let pU = 0, pU2 = 0, pD = 0, pD2 = 0, pT = 0, pT2 = 0, pT4 = 0;
   for (let w = 0; w < W; w++) {
     const up = UP[w]!, dn = DN[w]!;
     const U2 = up & sh(up, pU, 1), U4 = U2 & sh(U2, pU2, 2);
     const D2 = dn & sh(dn, pD, 1), D4 = D2 & sh(D2, pD2, 2);
-    RISE[w] = U4 & sh(up, pU, 4);
-    FALL[w] = D4 & sh(dn, pD, 4);
+    const rise = U4 & sh(up, pU, 4), fall = D4 & sh(dn, pD, 4);
+    RISE[w] = rise;
+    FALL[w] = fall;
     // A turn: this move and the previous one are both moves and opposite.
     const t = (up & sh(dn, pD, 1)) | (dn & sh(up, pU, 1));
     const T2 = t & sh(t, pT, 1), T4 = T2 & sh(T2, pT2, 2), T8 = T4 & sh(T4, pT4, 4);
-    TURN[w] = T8 & sh(T4, pT4, 8);
+    const turn = T8 & sh(T4, pT4, 8);
+    TURN[w] = turn;
+    F[w]! |= (rTrend & (rise | fall)) | (rTurn & turn);
     pU = up; pU2 = U2; pD = dn; pD2 = D2; pT = t; pT2 = T2; pT4 = T4;
   }
 }
 
 // 2 of 3 beyond 2σ and 4 of 5 beyond 1σ on one side, the newest point among them.
-function zoneWindows(pl: Planes, W: number): void {
-  const { U1, D1, U2, D2, F23U, F23D, F45U, F45D } = pl;
+function zoneWindows(pl: Planes, W: number, r23: number, r45: number): void {
+  const { U1, D1, U2, D2, F23U, F23D, F45U, F45D, F } = pl;
   let pu1 = 0, pd1 = 0, pu2 = 0, pd2 = 0;
   for (let w = 0; w < W; w++) {
     const u1 = U1[w]!, d1 = D1[w]!, u2 = U2[w]!, d2 = D2[w]!;
-    F23U[w] = u2 & (sh(u2, pu2, 1) | sh(u2, pu2, 2));
-    F23D[w] = d2 & (sh(d2, pd2, 1) | sh(d2, pd2, 2));
-    F45U[w] = fourOfFiveOf(u1, pu1);
-    F45D[w] = fourOfFiveOf(d1, pd1);
+    const f23u = u2 & (sh(u2, pu2, 1) | sh(u2, pu2, 2)), f23d = d2 & (sh(d2, pd2, 1) | sh(d2, pd2, 2));
+    const f45u = fourOfFiveOf(u1, pu1), f45d = fourOfFiveOf(d1, pd1);
+    F23U[w] = f23u;
+    F23D[w] = f23d;
+    F45U[w] = f45u;
+    F45D[w] = f45d;
+    F[w]! |= (r23 & (f23u | f23d)) | (r45 & (f45u | f45d));
     pu1 = u1; pd1 = d1; pu2 = u2; pd2 = d2;
   }
 }
 
 // 15 in a row within ±1σ; 8 in a row beyond ±1σ with points on both sides among them.
-function insideOutside(pl: Planes, W: number): void {
-  const { O1, U1, D1, IN, OUT } = pl;
+function insideOutside(pl: Planes, W: number, rIn: number, rOut: number): void {
+  const { O1, U1, D1, IN, OUT, F } = pl;
   let pI = 0, pI2 = 0, pI4 = 0, pI8 = 0, pO = 0, pO2 = 0, pO4 = 0, pA = 0, pA2 = 0, pA4 = 0, pB = 0, pB2 = 0, pB4 = 0;
   for (let w = 0; w < W; w++) {
     const o = O1[w]!, u = U1[w]!, d = D1[w]!;
     const I = ~o; // 0 before the context start: pI starts at 0
     const I2 = I & sh(I, pI, 1), I4 = I2 & sh(I2, pI2, 2), I8 = I4 & sh(I4, pI4, 4);
-    IN[w] = I8 & sh(I8, pI8, 7);
+    const inside = I8 & sh(I8, pI8, 7);
+    IN[w] = inside;
     const O2 = o & sh(o, pO, 1), O4 = O2 & sh(O2, pO2, 2), O8 = O4 & sh(O4, pO4, 4);
     const A2 = u | sh(u, pA, 1), A4 = A2 | sh(A2, pA2, 2), A8 = A4 | sh(A4, pA4, 4);
     const B2 = d | sh(d, pB, 1), B4 = B2 | sh(B2, pB2, 2), B8 = B4 | sh(B4, pB4, 4);
-    OUT[w] = O8 & A8 & B8;
+    const outside = O8 & A8 & B8;
+    OUT[w] = outside;
+    F[w]! |= (rIn & inside) | (rOut & outside);
     pI = I; pI2 = I2; pI4 = I4; pI8 = I8; pO = o; pO2 = O2; pO4 = O4; pA = u; pA2 = A2; pA4 = A4; pB = d; pB2 = B2; pB4 = B4;
   }
 }
