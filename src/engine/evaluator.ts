@@ -213,7 +213,7 @@ export class Evaluator {
         this.limParams = params;
         this.limSize = size;
       }
-      if (lim.sigma > 0 && lim.sigma < Infinity) {
+      if (lim.sigma > 0 && lim.sigma < Infinity && Number.isFinite(lim.centre)) {
         const start = this.phaseStartOf(from);
         const check = companion ? { spread: kind === 'xmr' ? null : this.stats.spread, ucl: lim.cUcl, lcl: lim.cLcl, rule: this.companionRule!, name: COMPANION_NAME[kind] ?? 'spread', pair: kind === 'xmr' } : undefined;
         detectBatch(values, Math.max(start, from - CONTEXT), from, to, lim.centre, lim.sigma, rules.set, sigs, check);
