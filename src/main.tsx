@@ -21,6 +21,7 @@ async function boot() {
     newId: newRecordId,
     session: sessionStorage,
     prefs: localStorage,
+    channel: 'BroadcastChannel' in window ? new BroadcastChannel('plumbline-records') : undefined,
     requestBackgroundSync: () => {
       // Chromium only; elsewhere the foreground sender (online event, timer, app start) does the work.
       void navigator.serviceWorker?.ready

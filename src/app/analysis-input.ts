@@ -55,10 +55,12 @@ export function buildChartSeries(ch: Characteristic, phases: readonly Phase[], c
   const phaseIds: string[] = [];
   for (const p of ordered) {
     // Compared as instants: '08:00:00Z' and '08:00:00.000Z' are the same moment but not the same text.
-    const startsAt = Date.parse(p.startsAt);
-    let start = samples.findIndex((s) => Date.parse(s.takenAt) >= startsAt);
-    if (start < 0) start = samples.length;
-    if (phaseInputs.length === 0) start = 0; // the first phase covers everything before it too
+    let start = 0; // the first phase covers everything before it too
+    if (phaseInputs.length > 0) {
+      const startsAt = Date.parse(p.startsAt);
+      start = samples.findIndex((s) => Date.parse(s.takenAt) >= startsAt);
+      if (start < 0) start = samples.length;
+    }
     const prev = phaseInputs[phaseInputs.length - 1];
     if (prev && prev.start === start) {
       phaseInputs.pop(); // an empty phase is superseded by the later one

@@ -2,7 +2,6 @@ import type { Acknowledgement, DeviceRecord, Person, Response, Sample } from '..
 import {
   getAcksForCharacteristic,
   getSamplesForCharacteristic,
-  countSamplesForCharacteristic,
   resolveCorrections,
   getDeviceIdentity,
   getResponsesForCharacteristic,
@@ -68,6 +67,8 @@ export interface AppDeps {
     persist(): Promise<boolean | null>;
     estimate(): Promise<{ usage: number; quota: number; isNearlyFull: boolean } | null>;
   };
+  /** Tells the app's other tabs on this tablet about records written here (BroadcastChannel in the browser). */
+  readonly channel?: Pick<BroadcastChannel, 'postMessage' | 'addEventListener'>;
   /** Background Sync registration (Chromium): a wake-up call for the sender; optional everywhere. */
   readonly requestBackgroundSync?: () => void;
   /** The theme before the person chooses one (e.g. from prefers-color-scheme). */
@@ -113,6 +114,7 @@ export function createPlumblineApp(deps: AppDeps) {
   let identity: DeviceIdentity | undefined;
   let sync: SyncPort | undefined;
   let unsubscribeSync: (() => void) | undefined;
+  let pulledThisRun = 0;
   let toastTimer: ReturnType<typeof setTimeout> | undefined;
 
   const set = (patch: Partial<AppState>) => {
@@ -166,6 +168,29 @@ export function createPlumblineApp(deps: AppDeps) {
     else r.acks.push(record);
   }
 
+  /**
+   * Other tabs of the app on this tablet keep their own in-memory copies: tell them what changed
+   * (BroadcastChannel), and drop ours when they tell us.
+   */
+  function announce(what: readonly string[] | 'all') {
+    deps.channel?.postMessage(what);
+  }
+  deps.channel?.addEventListener('message', (e: MessageEvent) => {
+    const what = e.data as readonly string[] | 'all';
+    if (what === 'all') records.clear();
+    else if (Array.isArray(what)) for (const id of what) records.delete(id);
+    if (state.stage === 'ready') void refreshViews(what === 'all' ? undefined : what.filter((id) => id in state.views));
+  });
+
+  /** Takes back a record whose write failed. */
+  function forget(record: DeviceRecord) {
+    const r = records.get(record.characteristicId);
+    if (!r) return;
+    if (record.kind === 'sample') r.samples = r.samples.filter((s) => s.id !== record.id);
+    else if (record.kind === 'response') r.responses = r.responses.filter((s) => s.id !== record.id);
+    else r.acks = r.acks.filter((s) => s.id !== record.id);
+  }
+
   async function loadView(characteristicId: string): Promise<CharacteristicView | undefined> {
     const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
     if (!ch) return undefined;
@@ -198,10 +223,17 @@ export function createPlumblineApp(deps: AppDeps) {
     unsubscribeSync = sync.subscribe((s) => {
       const wasSyncing = state.sync.state === 'syncing';
       set({ sync: syncView(s) });
-      // Fresh data came down: re-read set-up and charts once a run ends.
+      // Fresh data came down (set-up, or other tablets' records): re-read set-up and charts once the
+      // run ends. A run that only sent (or failed) leaves the in-memory records as they are.
+      if (s.state === 'syncing' && s.progress) pulledThisRun = Math.max(pulledThisRun, s.progress.pulled);
       if (wasSyncing && s.state !== 'syncing') {
-        records.clear();
-        void reloadSetup().then(() => refreshViews());
+        const pulled = Math.max(pulledThisRun, s.progress?.pulled ?? 0);
+        pulledThisRun = 0;
+        if (pulled > 0) {
+          records.clear();
+          announce('all');
+          void reloadSetup().then(() => refreshViews());
+        }
       }
     });
     set({ sync: syncView(sync.getStatus()) });
@@ -210,6 +242,7 @@ export function createPlumblineApp(deps: AppDeps) {
 
   async function becomeReady(person: Person) {
     deps.session.setItem('plumbline.person', person.id);
+    records.clear(); // a new person starts from what IndexedDB holds now
     const signedIn = (await listSignedInPeople(db)).map(toPerson);
     set({ stage: 'ready', person, signedIn, error: undefined, screen: { name: 'board' } });
     await refreshViews();
@@ -332,31 +365,30 @@ export function createPlumblineApp(deps: AppDeps) {
         ...(entry.lot ? { lot: entry.lot } : {}),
         ...(entry.comment ? { comment: entry.comment } : {}),
       };
+      // The chart shows the new point at once, while the durable write to IndexedDB runs (a strict
+      // commit waits for the disk: tens of ms). "Saved on this tablet" and the signal prompt come only
+      // once the commit is done; if it fails, the point is taken back off the chart and the error says so.
+      await recordsOf(characteristicId);
+      remember(sample);
+      const view = await loadView(characteristicId);
+      performance.mark('plumbline:view-built');
+      if (view) set({ views: { ...state.views, [characteristicId]: view }, error: undefined });
       try {
         await saveDeviceRecord(db, sample, deps.now());
         performance.mark('plumbline:sample-committed');
-        remember(sample);
+        announce([characteristicId]);
       } catch (e) {
-        set({ error: `The sample was NOT saved: ${messageOf(e)}` });
+        forget(sample);
+        const back = await loadView(characteristicId);
+        set({ ...(back ? { views: { ...state.views, [characteristicId]: back } } : {}), error: `The sample was NOT saved: ${messageOf(e)}` });
         return false;
       }
-      const view = await loadView(characteristicId);
-      if (!view) return true;
-      const fired = signalsAt(view.analysis, view.series.sampleIds.indexOf(sample.id));
+      const fired = view ? signalsAt(view.analysis, view.series.sampleIds.indexOf(sample.id)) : [];
       const prompt: SignalPrompt | undefined = fired.length ? { characteristicId, sampleId: sample.id, signals: fired } : undefined;
-      // One state change for the chart, the prompt and the toast: one render.
-      set({ views: { ...state.views, [characteristicId]: view }, error: undefined, ...(prompt ? { prompt } : {}),
-        toast: fired.length ? 'Saved on this tablet — a run rule fired' : 'Saved on this tablet' });
+      set({ ...(prompt ? { prompt } : {}), toast: fired.length ? 'Saved on this tablet — a run rule fired' : 'Saved on this tablet' });
       scheduleToastEnd();
-      sendSoon();
-      // After the chart is up: another tab (or a pull) may have written samples too, so check that the
-      // cached copy is whole; if not, read it afresh and redraw.
-      void countSamplesForCharacteristic(db, characteristicId).then(async (count) => {
-        const cached = records.get(characteristicId);
-        if (!cached || cached.samples.length === count) return;
-        records.delete(characteristicId);
-        await refreshViews([characteristicId]);
-      });
+      // Send once the screen has painted.
+      setTimeout(sendSoon, 0);
       return true;
     },
 
@@ -376,6 +408,7 @@ export function createPlumblineApp(deps: AppDeps) {
       try {
         await saveDeviceRecord(db, response, deps.now());
         remember(response);
+        announce([response.characteristicId]);
       } catch (e) {
         set({ error: `The answer was NOT saved: ${messageOf(e)}` });
         return false;
@@ -411,6 +444,7 @@ export function createPlumblineApp(deps: AppDeps) {
         };
         await saveDeviceRecord(db, ack, deps.now());
         remember(ack);
+        announce([ack.characteristicId]);
       } catch (e) {
         set({ error: `The sign-off was NOT saved: ${messageOf(e)}` });
         return false;
@@ -503,6 +537,7 @@ export function createPlumblineApp(deps: AppDeps) {
     try {
       await saveDeviceRecord(db, replacement, deps.now());
       remember(replacement);
+      announce([replacement.characteristicId]);
     } catch (e) {
       set({ error: `The ${what} was NOT saved: ${messageOf(e)}` });
       return false;

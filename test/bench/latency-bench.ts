@@ -60,6 +60,7 @@ async function main() {
     args: ['--headless=new', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
   });
   const page = browser.pages()[0] ?? (await browser.newPage());
+  page.on('pageerror', (e) => console.error('page error:', e.message));
   await page.goto(base);
   await page.getByLabel('Connection code').fill((await issueEnrolmentCode(store, DEMO_SITE_ID, 'p-marguerite', new Date(), 60)).code);
   await page.getByLabel('Name of this tablet').fill('Bench tablet');
@@ -76,7 +77,7 @@ async function main() {
   await browser.setOffline(true); // no network traffic inside the measurement
   const cdp = await browser.newCDPSession(page);
 
-  const results: { label: string; total: number[]; commit: number[] }[] = [];
+  const results: { label: string; total: number[]; commit: number[]; built: number[] }[] = [];
   const profile = process.env.PROFILE === '1';
   if (profile) {
     await cdp.send('Profiler.enable');
@@ -87,21 +88,29 @@ async function main() {
     if (profile) await cdp.send('Profiler.start');
     const total: number[] = [];
     const commit: number[] = [];
+    const built: number[] = [];
     for (let run = 0; run < RUNS + 3; run++) {
       await page.getByLabel('Value (N·m)').fill(value);
-      const m = await page.evaluate(() => new Promise<{ total: number; commit: number }>((res, rej) => {
+      const m = await page.evaluate(() => new Promise<{ total: number; commit: number; built: number }>((res, rej) => {
         const input = document.querySelector<HTMLInputElement>('#entry-v0');
         if (!input) return rej(new Error('no entry field'));
+        const marks = performance.getEntriesByName('plumbline:chart-drawn') as PerformanceMark[];
+        const before = Math.max(0, ...marks.map((m) => (m.detail as { newest?: number } | null)?.newest ?? 0));
         let committed = NaN;
+        let drawn = NaN;
+        let built = NaN;
         const t0 = performance.now();
         const obs = new PerformanceObserver((list) => {
           for (const e of list.getEntries()) {
             if (e.startTime < t0) continue;
             if (e.name === 'plumbline:sample-committed') committed = e.startTime - t0;
-            const d = (e as PerformanceMark).detail as { chart?: string; newestFlagged?: boolean } | null;
-            if (e.name === 'plumbline:chart-drawn' && d?.chart === 'main-chart' && d.newestFlagged && !Number.isNaN(committed)) {
+            if (e.name === 'plumbline:view-built') built = e.startTime - t0;
+            const d = (e as PerformanceMark).detail as { chart?: string; newest?: number; newestFlagged?: boolean } | null;
+            // The draw that shows the new point (one more than before), flagged.
+            if (e.name === 'plumbline:chart-drawn' && d?.chart === 'main-chart' && (d.newest ?? 0) > before && d.newestFlagged && Number.isNaN(drawn)) drawn = e.startTime - t0;
+            if (!Number.isNaN(drawn) && !Number.isNaN(committed)) {
               obs.disconnect();
-              res({ total: e.startTime - t0, commit: committed });
+              res({ total: drawn, commit: committed, built });
             }
           }
         });
@@ -109,11 +118,11 @@ async function main() {
         input.dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter', bubbles: true }));
         setTimeout(() => rej(new Error('no flagged redraw within 5 s')), 5000);
       }));
-      if (run >= 3) { total.push(m.total); commit.push(m.commit); } // the first three warm up
+      if (run >= 3) { total.push(m.total); commit.push(m.commit); built.push(m.built); } // the first three warm up
       await page.getByRole('button', { name: 'Answer later' }).click();
       await page.getByTestId('signal-prompt').waitFor({ state: 'detached' });
     }
-    results.push({ label: rate === 1 ? 'unthrottled' : `${rate}x CPU throttling`, total, commit });
+    results.push({ label: rate === 1 ? 'unthrottled' : `${rate}x CPU throttling`, total, commit, built });
     if (profile) {
       // Where the page spends its time: self time per function, top 25 (a development aid, not a result).
       const { profile: prof } = await cdp.send('Profiler.stop');
@@ -130,25 +139,28 @@ async function main() {
   await browser.close();
   await app.close();
 
-  const rows = results.map(({ label, total, commit }) => {
+  const rows = results.map(({ label, total, commit, built }) => {
+    const b = [...built].sort((x, y) => x - y);
     const t = [...total].sort((a, b) => a - b);
     const c = [...commit].sort((a, b) => a - b);
-    const after = total.map((x, i) => x - commit[i]!).sort((a, b) => a - b);
-    return `| ${label} | ${t.length} | ${percentile(t, 50).toFixed(1)} | ${percentile(t, 95).toFixed(1)} | ${percentile(c, 50).toFixed(1)} | ${percentile(c, 95).toFixed(1)} | ${percentile(after, 50).toFixed(1)} | ${percentile(after, 95).toFixed(1)} |`;
+    const both = total.map((x, i) => Math.max(x, commit[i]!)).sort((a, b) => a - b);
+    return `| ${label} | ${t.length} | ${percentile(b, 50).toFixed(1)} | ${percentile(b, 95).toFixed(1)} | ${percentile(t, 50).toFixed(1)} | ${percentile(t, 95).toFixed(1)} | ${percentile(c, 50).toFixed(1)} | ${percentile(c, 95).toFixed(1)} | ${percentile(both, 50).toFixed(1)} | ${percentile(both, 95).toFixed(1)} |`;
   });
   const report = [
     '# Save → flagged redraw latency',
     '',
     `Measured ${now.toISOString()} by \`npm run bench:latency\` (test/bench/latency-bench.ts) in Debian Chromium, headless,`,
     `1280×800, on this project's 2-core machine. History: ${points} points on the chart (${EXTRA_HISTORY} added to the demo's three weeks), XmR with Nelson rules.`,
-    'Each run: the value typed, Enter, the sample committed to IndexedDB (strict durability), the engine run, the chart redrawn',
-    'with the new point flagged. Times in ms from the Enter key event, from performance marks in the page; 3 warm-up runs dropped.',
+    'Each run: the value typed, Enter; the engine runs and the chart is redrawn with the new point flagged while the sample is',
+    'written to IndexedDB with strict durability (the toast "Saved on this tablet" and the prompt wait for that commit).',
+    'Times in ms from the Enter key event, from performance marks in the page; 3 warm-up runs dropped.',
     '',
-    '| CPU | runs | total p50 | total p95 | IndexedDB commit p50 | commit p95 | commit → drawn p50 | commit → drawn p95 |',
-    '| --- | --- | --- | --- | --- | --- | --- | --- |',
+    '| CPU | runs | engine + view built p50 | built p95 | flagged point drawn p50 | drawn p95 | IndexedDB commit p50 | commit p95 | both done p50 | both p95 |',
+    '| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |',
     ...rows,
     '',
-    'Targets (issue 4): p95 under 50 ms with 4× throttling; under one frame (16.7 ms) unthrottled.',
+    'Targets (issue 4), for "save → chart redrawn with the flag visible": p95 under 50 ms with 4× throttling; under one frame',
+    '(16.7 ms) unthrottled. The durable commit is reported beside it: it is bounded by the disk, not by the app.',
     '',
   ].join('\n');
   writeFileSync(resolve('test/bench/latency-results.md'), report);

@@ -1,4 +1,4 @@
-import { useEffect, useRef } from 'preact/hooks';
+import { useEffect, useLayoutEffect, useRef } from 'preact/hooks';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 
@@ -150,7 +150,7 @@ export function ControlChart(props: ControlChartProps) {
       ctx.restore();
       // For the latency benchmark: when the chart has drawn, and whether its newest point is flagged.
       const n = p.points.length;
-      performance.mark('plumbline:chart-drawn', { detail: { chart: p.testId ?? '', points: n, newestFlagged: p.flags.some((f) => f.index === n - 1) } });
+      performance.mark('plumbline:chart-drawn', { detail: { chart: p.testId ?? '', newest: p.offset + n, newestFlagged: p.flags.some((f) => f.index === n - 1) } });
     };
     const opts: uPlot.Options = {
       width: el.clientWidth || 600,
@@ -192,8 +192,9 @@ export function ControlChart(props: ControlChartProps) {
     };
   }, []);
 
-  // New data: one setData per change (the chart updates within the frame of the save).
-  useEffect(() => {
+  // New data: one setData per change, in a layout effect so the chart is redrawn in the same frame
+  // as the render (a plain effect waits for the next paint: a frame later).
+  useLayoutEffect(() => {
     const u = plot.current;
     if (!u) return;
     u.setData(buildData(props), false);
