@@ -94,14 +94,14 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
       if (r23 & (f23 >>> b) & 1) {
         const above = (f23u >>> b) & 1;
         const plane = above ? U2 : D2;
-        const pts = windowPoints(plane[w]!, w > 0 ? plane[w - 1]! : 0, b, i, 3);
+        const pts = window3(olderBits(plane[w]!, w > 0 ? plane[w - 1]! : 0, b, 2), i);
         if (set.we2) out.push(sided('we2', i, pts, above, t.we2));
         if (set.n5) out.push(sided('n5', i, set.we2 ? pts.slice() : pts, above, t.n5));
       }
       if (r45 & (f45 >>> b) & 1) {
         const above = (f45u >>> b) & 1;
         const plane = above ? U1 : D1;
-        const pts = windowPoints(plane[w]!, w > 0 ? plane[w - 1]! : 0, b, i, 5);
+        const pts = window5(olderBits(plane[w]!, w > 0 ? plane[w - 1]! : 0, b, 4), i);
         if (set.we3) out.push(sided('we3', i, pts, above, t.we3));
         if (set.n6) out.push(sided('n6', i, set.we3 ? pts.slice() : pts, above, t.n6));
       }
@@ -370,14 +370,33 @@ function fourOfFiveOf(x: number, px: number): number {
   return x & ((a & b & (c | d)) | (c & d & (a | b)));
 }
 
-// Indices of the set bits among the `w` points ending at bit b (point i), oldest first.
-function windowPoints(cur: number, prv: number, b: number, i: number, w: number): number[] {
-  const pts: number[] = [];
-  for (let k = w - 1; k >= 0; k--) {
-    const set = b >= k ? (cur >>> (b - k)) & 1 : (prv >>> (32 + b - k)) & 1;
-    if (set) pts.push(i - k);
+// The points of a "2 of 3" window ending at i, oldest first: i and the one or two of the two
+// before it that are set in the window (bit 1: point i − 1, bit 0: point i − 2), as an array literal.
+function window3(older: number, i: number): number[] {
+  return older === 3 ? [i - 2, i - 1, i] : older === 2 ? [i - 1, i] : [i - 2, i];
+}
+
+// The points of a "4 of 5" window ending at i, oldest first: i and the three or four of the four
+// before it that are set (bit 3: point i − 1 … bit 0: point i − 4).
+function window5(older: number, i: number): number[] {
+  switch (older) {
+    case 15:
+      return [i - 4, i - 3, i - 2, i - 1, i];
+    case 14:
+      return [i - 3, i - 2, i - 1, i];
+    case 13:
+      return [i - 4, i - 2, i - 1, i];
+    case 11:
+      return [i - 4, i - 3, i - 1, i];
+    default: // 7
+      return [i - 4, i - 3, i - 2, i];
   }
-  return pts;
+}
+
+// The `k` bits before bit b (point i) in the 64-bit string prv:cur, the newest in bit k − 1.
+function olderBits(cur: number, prv: number, b: number, k: number): number {
+  const span = b >= k ? cur >>> (b - k) : sh(cur, prv, k - b);
+  return span & ((1 << k) - 1);
 }
 
 // The points of a run of 6, 8, 9, 14 or 15 ending at i, oldest first (array literals: one
