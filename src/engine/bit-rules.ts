@@ -65,11 +65,20 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   if (rIn | rOut) insideOutside(pl, W, rIn, rOut);
   const F = pl.F;
   const firstJ = from - contextStart; // bits below this never fire
-  const { X3, F23U, F23D, F45U, F45D, P8, M8, P9, M9, RISE, FALL, TURN, IN, OUT, CF } = pl;
   // Bits past the last point and before `from` never fire.
   if ((n & 31) !== 0) F[W - 1]! &= (1 << (n & 31)) - 1;
   for (let w = 0; w < firstJ >>> 5; w++) F[w] = 0;
   if ((firstJ & 31) !== 0) F[firstJ >>> 5]! &= -1 << (firstJ & 31);
+  buildSignals(values, contextStart, W, set, pl, out, companion, r1, r23, r45, r8, r9, rTrend, rTurn, rIn, rOut);
+}
+
+// The signals at the points where F is set, in index order (a function of its own: the
+// compiler's inlining budget then goes to the small builders it calls).
+function buildSignals(
+  values: Float64Array, contextStart: number, W: number, set: RuleSet, pl: Planes, out: Signal[], companion: CompanionCheck | undefined,
+  r1: number, r23: number, r45: number, r8: number, r9: number, rTrend: number, rTurn: number, rIn: number, rOut: number,
+): void {
+  const { F, X3, F23U, F23D, F45U, F45D, P8, M8, P9, M9, RISE, FALL, TURN, IN, OUT, CF } = pl;
   const t = ruleTexts();
   const cAbove = companion ? explainCompanion(companion.name, 'above') : '';
   const cBelow = companion ? explainCompanion(companion.name, 'below') : '';
@@ -219,16 +228,18 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
         rare = bit(Math.abs(ad - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(dx) - mMid) < mMid));
         i--;
       }
-      // Two points a turn (i and i − 1; i − 1 > cs except for the first pair of the context).
+      // Two points a turn (i and i − 1; i − 1 > cs except for the first pair of the context),
+      // the point before them read once and carried to the next turn as its newest point.
+      let x = i > base ? values[i]! : 0;
       for (; i > base; i -= 2) {
-        const x = values[i]!;
         const y = values[i - 1]!;
+        const before = i - 1 > cs ? values[i - 2]! : y;
         const dX = x - centre;
         const dY = y - centre;
         const aX = Math.abs(dX);
         const aY = Math.abs(dY);
         const mX = x - y;
-        const mY = i - 1 > cs ? y - values[i - 2]! : 0;
+        const mY = y - before;
         p = (p << 2) | (bit(dX > a0) << 1) | bit(dY > a0);
         o1 = (o1 << 2) | (bit(aX > a1) << 1) | bit(aY > a1);
         up = (up << 2) | (bit(mX > 0) << 1) | bit(mY > 0);
@@ -238,6 +249,7 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
           ((bit(Math.abs(aX - zMid) >= zHalf) | bit(!(Math.abs(Math.abs(mX) - mMid) < mMid))) << 1) |
           bit(Math.abs(aY - zMid) >= zHalf) |
           bit(!(Math.abs(Math.abs(mY) - mMid) < mMid));
+        x = before;
       }
     } else {
       for (let b = 0; b < end; b++) {
