@@ -124,7 +124,7 @@ export class Evaluator {
   /** Adds one value per subgroup from a plain or typed array (individuals, EWMA, CUSUM). Returns as append(). */
   appendValues(values: ArrayLike<number>): number {
     const first = this.stats.length;
-    return this.appendSegments(values.length, (stats, j, phaseStart, end) => stats.pushValues(values, j, end - first, phaseStart));
+    return this.appendSegments(values.length, (stats, j, phaseStart, end) => stats.pushValues(values, j, end - first, phaseStart), values instanceof Float64Array);
   }
 
   /**
@@ -153,10 +153,10 @@ export class Evaluator {
 
   // Pushes `count` items phase by phase (pushSegment adds items j.. up to absolute index `end`),
   // re-estimates each baseline the new items fall in, evaluates once.
-  private appendSegments(count: number, pushSegment: (stats: SubgroupStats, j: number, phaseStart: number, end: number) => void): number {
+  private appendSegments(count: number, pushSegment: (stats: SubgroupStats, j: number, phaseStart: number, end: number) => void, typedValues = false): number {
     const first = this.stats.length;
     const total = first + count;
-    this.stats.reserve(total);
+    this.stats.reserve(total, typedValues); // a Float64Array of values: the column is made by the copy (SubgroupStats.pushValues)
     this.smoothed?.reserve(total);
     let from = first;
     while (this.stats.length < total) {

@@ -120,9 +120,16 @@ export class SubgroupStats {
   pushValues(values: ArrayLike<number>, from: number, to: number, phaseStart: number): void {
     if (this.isAttribute) throw new EngineInputError(`a ${this.kind} chart needs counts, not measured values`);
     const first = this.length;
-    this.reserve(first + to - from);
-    const v = this.value;
     const end = first + to - from;
+    const typed = values instanceof Float64Array;
+    // Into empty stats: the value column is made as a copy of the batch.
+    const copied = typed && first === 0 && this.value.length === 0 && end >= 64 && this.deferred <= end;
+    if (copied) {
+      this.value = new Float64Array(values.subarray(from, to));
+      this.deferred = 0;
+    }
+    this.reserve(end);
+    const v = this.value;
     // Moving ranges from the second point of the phase on (none for X̄ charts); not stored here.
     const mrFrom = this.usesMovingRange ? Math.min(end, Math.max(first, phaseStart + 1)) : end;
     if (phaseStart >= first && phaseStart < end) this.pendingStarts.push(phaseStart);
@@ -130,8 +137,8 @@ export class SubgroupStats {
     // A typed array is copied in one block and read back; other arrays value by value.
     let src: ArrayLike<number> = values;
     let off = from - first; // point i is src[i + off]
-    if (values instanceof Float64Array) {
-      v.set(values.subarray(from, to), first);
+    if (typed) {
+      if (!copied) v.set(values.subarray(from, to), first);
       src = v;
       off = 0;
     }
@@ -176,6 +183,7 @@ export class SubgroupStats {
   }
 
   private lastSpread = NaN;
+  private deferred = 0; // capacity promised by reserve(n, true) and not yet allocated
   private batch: BatchSums | null = null;
 
   /**
@@ -209,9 +217,22 @@ export class SubgroupStats {
     return mean;
   }
 
-  /** Makes room for `n` subgroups (a batch reserves once). */
-  reserve(n: number): void {
-    this.value = grow(this.value, n);
+  /**
+   * Makes room for `n` subgroups (a batch reserves once). `valuesFollow`: the next call is
+   * pushValues() with the batch, which, for a Float64Array into empty stats, makes the value column
+   * as a copy of it (one allocation without the zero-fill, then one block copy); until then the
+   * column is left unallocated.
+   */
+  reserve(n: number, valuesFollow = false): void {
+    if (valuesFollow && this.length === 0 && this.value.length === 0) {
+      this.deferred = n;
+      this.size = this.ownSize ? grow(this.size, n) : ones(n);
+      if (this.isAttribute) this.count = grow(this.count, n);
+      this.excluded = this.ownExcluded ? growBytes(this.excluded, n) : zeros(n);
+      return;
+    }
+    this.value = grow(this.value, Math.max(n, this.deferred));
+    this.deferred = 0;
     this.size = this.ownSize ? grow(this.size, n) : ones(this.value.length);
     if (this.isAttribute) this.count = grow(this.count, n);
     this.excluded = this.ownExcluded ? growBytes(this.excluded, n) : zeros(this.value.length);
