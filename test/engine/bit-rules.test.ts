@@ -60,6 +60,26 @@ describe('Evaluator after a batch', () => {
       { numRuns: 200, seed: 7 },
     );
   });
+
+  it('gives from a batch of values the signals of point-by-point appends, moving-range chart included', () => {
+    fc.assert(
+      fc.property(fc.array(value, { minLength: 64, maxLength: 300 }), fc.subarray([...ALL_RULES], { minLength: 1 }), fc.nat(), (xs, rules, k) => {
+        const config = { chart: 'xmr' as const, phases: [{ start: 0, given: { centre: 0, sigma: 1 } }], rules };
+        const batch = new Evaluator(config);
+        batch.appendValues(Float64Array.from(xs));
+        const one = new Evaluator(config);
+        for (const x of xs) one.append({ values: [x] });
+        expect(batch.analysis().signals).toEqual(one.analysis().signals);
+        // two batches: the second's run of points starts inside the first's words
+        const split = k % xs.length;
+        const two = new Evaluator(config);
+        two.appendValues(Float64Array.from(xs.slice(0, split)));
+        two.appendValues(Float64Array.from(xs.slice(split)));
+        expect(two.analysis().signals).toEqual(one.analysis().signals);
+      }),
+      { numRuns: 200, seed: 11 },
+    );
+  });
 });
 
 // The batch compares x − centre with a bound A(k) per zone line instead of dividing each point
