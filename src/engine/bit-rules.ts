@@ -78,7 +78,7 @@ function buildSignals(
   values: Float64Array, contextStart: number, W: number, set: RuleSet, pl: Planes, out: Signal[], companion: CompanionCheck | undefined,
   r1: number, r23: number, r45: number, r8: number, r9: number, rTrend: number, rTurn: number, rIn: number, rOut: number,
 ): void {
-  const { F, X3, F23U, F23D, F45U, F45D, P8, M8, P9, M9, RISE, FALL, TURN, IN, OUT, CF } = pl;
+  const { F, X3, F23, F45, S8, S9, TREND, TURN, IN, OUT, CF, UP } = pl;
   const t = ruleTexts();
   const cAbove = companion ? explainCompanion(companion.name, 'above') : '';
   const cBelow = companion ? explainCompanion(companion.name, 'below') : '';
@@ -87,8 +87,10 @@ function buildSignals(
     let f = F[w]!;
     if (f === 0) continue;
     const base = contextStart + (w << 5);
-    const x3 = X3[w]!, p = P[w]!, f23u = F23U[w]!, f23 = f23u | F23D[w]!, f45u = F45U[w]!, f45 = f45u | F45D[w]!;
-    const p8 = P8[w]!, s8 = p8 | M8[w]!, p9 = P9[w]!, s9 = p9 | M9[w]!, rise = RISE[w]!, trend = rise | FALL[w]!;
+    // A pattern's side is the side of its newest point: above the centre (P) for the zone and
+    // same-side rules, up from the previous value (UP) for the trend.
+    const x3 = X3[w]!, p = P[w]!, f23 = F23[w]!, f45 = F45[w]!;
+    const s8 = S8[w]!, s9 = S9[w]!, up = UP[w]!, trend = TREND[w]!;
     const turn = TURN[w]!, inside = IN[w]!, outside = OUT[w]!, cf = CF[w]!;
     while (f !== 0) {
       const b = 31 - Math.clz32(f & -f);
@@ -101,22 +103,22 @@ function buildSignals(
         if (set.n1) out.push(sided('n1', i, [i], above, t.n1));
       }
       if (r23 & (f23 >>> b) & 1) {
-        const above = (f23u >>> b) & 1;
+        const above = (p >>> b) & 1;
         const plane = above ? U2 : D2;
         const pts = window3(olderBits(plane[w]!, w > 0 ? plane[w - 1]! : 0, b, 2), i);
         if (set.we2) out.push(sided('we2', i, pts, above, t.we2));
         if (set.n5) out.push(sided('n5', i, set.we2 ? pts.slice() : pts, above, t.n5));
       }
       if (r45 & (f45 >>> b) & 1) {
-        const above = (f45u >>> b) & 1;
+        const above = (p >>> b) & 1;
         const plane = above ? U1 : D1;
         const pts = window5(olderBits(plane[w]!, w > 0 ? plane[w - 1]! : 0, b, 4), i);
         if (set.we3) out.push(sided('we3', i, pts, above, t.we3));
         if (set.n6) out.push(sided('n6', i, set.we3 ? pts.slice() : pts, above, t.n6));
       }
-      if (r8 & (s8 >>> b) & 1) out.push(sided('we4', i, run8(i), (p8 >>> b) & 1, t.we4));
-      if (r9 & (s9 >>> b) & 1) out.push(sided('n2', i, run9(i), (p9 >>> b) & 1, t.n2));
-      if (rTrend & (trend >>> b) & 1) out.push(sided('n3', i, run6(i), (rise >>> b) & 1, t.n3));
+      if (r8 & (s8 >>> b) & 1) out.push(sided('we4', i, run8(i), (p >>> b) & 1, t.we4));
+      if (r9 & (s9 >>> b) & 1) out.push(sided('n2', i, run9(i), (p >>> b) & 1, t.n2));
+      if (rTrend & (trend >>> b) & 1) out.push(sided('n3', i, run6(i), (up >>> b) & 1, t.n3));
       if (rTurn & (turn >>> b) & 1) out.push({ rule: 'n4', index: i, points: run14(i), explanation: t.n4 });
       if (rIn & (inside >>> b) & 1) out.push({ rule: 'n7', index: i, points: run15(i), explanation: t.n7 });
       if (rOut & (outside >>> b) & 1) out.push({ rule: 'n8', index: i, points: run8(i), explanation: t.n8 });
@@ -150,16 +152,12 @@ interface Planes {
   readonly U2: Int32Array;
   readonly D2: Int32Array;
   // Patterns ending at each point.
-  readonly F23U: Int32Array;
-  readonly F23D: Int32Array;
-  readonly F45U: Int32Array;
-  readonly F45D: Int32Array;
-  readonly P8: Int32Array;
-  readonly M8: Int32Array;
-  readonly P9: Int32Array;
-  readonly M9: Int32Array;
-  readonly RISE: Int32Array;
-  readonly FALL: Int32Array;
+  // (either side: the side is that of the newest point, so one plane per pattern)
+  readonly F23: Int32Array;
+  readonly F45: Int32Array;
+  readonly S8: Int32Array;
+  readonly S9: Int32Array;
+  readonly TREND: Int32Array;
   readonly TURN: Int32Array;
   readonly IN: Int32Array;
   readonly OUT: Int32Array;
@@ -178,7 +176,7 @@ function scratch(W: number): Planes {
     // A literal keeps the object's shape fixed (fast property access in the loops).
     planesCache = {
       P: a(), O1: a(), UP: a(), X2: a(), X3: a(), Z: a(), E: a(), CF: a(), M: a(), DN: a(), U1: a(), D1: a(), U2: a(), D2: a(),
-      F23U: a(), F23D: a(), F45U: a(), F45D: a(), P8: a(), M8: a(), P9: a(), M9: a(), RISE: a(), FALL: a(), TURN: a(), IN: a(), OUT: a(), F: a(),
+      F23: a(), F45: a(), S8: a(), S9: a(), TREND: a(), TURN: a(), IN: a(), OUT: a(), F: a(),
     };
   }
   return planesCache;
@@ -293,56 +291,54 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
 
 // 8 and 9 in a row on one side (doubling: runs of 2, 4, 8).
 function sameSideRuns(pl: Planes, W: number, r8: number, r9: number): void {
-  const { P, M, P8, M8, P9, M9, F } = pl;
+  const { P, M, S8, S9, F } = pl;
   let pP = 0, pP2 = 0, pP4 = 0, pM = 0, pM2 = 0, pM4 = 0;
   for (let w = 0; w < W; w++) {
     const p = P[w]!, m = M[w]!;
     const P2 = p & sh(p, pP, 1), P4 = P2 & sh(P2, pP2, 2), p8 = P4 & sh(P4, pP4, 4);
     const M2 = m & sh(m, pM, 1), M4 = M2 & sh(M2, pM2, 2), m8 = M4 & sh(M4, pM4, 4);
     const p9 = p8 & sh(p, pP, 8), m9 = m8 & sh(m, pM, 8);
-    P8[w] = p8;
-    M8[w] = m8;
-    P9[w] = p9;
-    M9[w] = m9;
-    F[w]! |= (r8 & (p8 | m8)) | (r9 & (p9 | m9));
+    const s8 = p8 | m8, s9 = p9 | m9;
+    S8[w] = s8;
+    S9[w] = s9;
+    F[w]! |= (r8 & s8) | (r9 & s9);
     pP = p; pP2 = P2; pP4 = P4; pM = m; pM2 = M2; pM4 = M4;
   }
 }
 
 // 6 in a row rising or falling (5 moves one way) and 14 alternating (13 turns in a row).
 function trends(pl: Planes, W: number, rTrend: number, rTurn: number): void {
-  const { UP, DN, RISE, FALL, TURN, F } = pl;
+  const { UP, DN, TREND, TURN, F } = pl;
   let pU = 0, pU2 = 0, pD = 0, pD2 = 0, pT = 0, pT2 = 0, pT4 = 0;
   for (let w = 0; w < W; w++) {
     const up = UP[w]!, dn = DN[w]!;
     const U2 = up & sh(up, pU, 1), U4 = U2 & sh(U2, pU2, 2);
     const D2 = dn & sh(dn, pD, 1), D4 = D2 & sh(D2, pD2, 2);
     const rise = U4 & sh(up, pU, 4), fall = D4 & sh(dn, pD, 4);
-    RISE[w] = rise;
-    FALL[w] = fall;
+    const trend = rise | fall;
+    TREND[w] = trend;
     // A turn: this move and the previous one are both moves and opposite.
     const t = (up & sh(dn, pD, 1)) | (dn & sh(up, pU, 1));
     const T2 = t & sh(t, pT, 1), T4 = T2 & sh(T2, pT2, 2), T8 = T4 & sh(T4, pT4, 4);
     const turn = T8 & sh(T4, pT4, 8);
     TURN[w] = turn;
-    F[w]! |= (rTrend & (rise | fall)) | (rTurn & turn);
+    F[w]! |= (rTrend & trend) | (rTurn & turn);
     pU = up; pU2 = U2; pD = dn; pD2 = D2; pT = t; pT2 = T2; pT4 = T4;
   }
 }
 
 // 2 of 3 beyond 2σ and 4 of 5 beyond 1σ on one side, the newest point among them.
 function zoneWindows(pl: Planes, W: number, r23: number, r45: number): void {
-  const { U1, D1, U2, D2, F23U, F23D, F45U, F45D, F } = pl;
+  const { U1, D1, U2, D2, F23, F45, F } = pl;
   let pu1 = 0, pd1 = 0, pu2 = 0, pd2 = 0;
   for (let w = 0; w < W; w++) {
     const u1 = U1[w]!, d1 = D1[w]!, u2 = U2[w]!, d2 = D2[w]!;
     const f23u = u2 & (sh(u2, pu2, 1) | sh(u2, pu2, 2)), f23d = d2 & (sh(d2, pd2, 1) | sh(d2, pd2, 2));
     const f45u = fourOfFiveOf(u1, pu1), f45d = fourOfFiveOf(d1, pd1);
-    F23U[w] = f23u;
-    F23D[w] = f23d;
-    F45U[w] = f45u;
-    F45D[w] = f45d;
-    F[w]! |= (r23 & (f23u | f23d)) | (r45 & (f45u | f45d));
+    const f23 = f23u | f23d, f45 = f45u | f45d;
+    F23[w] = f23;
+    F45[w] = f45;
+    F[w]! |= (r23 & f23) | (r45 & f45);
     pu1 = u1; pd1 = d1; pu2 = u2; pd2 = d2;
   }
 }
