@@ -10,6 +10,12 @@ export interface AppHandle {
 
 export function useAppState(app: AppHandle): AppState {
   const [state, setState] = useState(app.getState());
-  useEffect(() => app.subscribe(() => setState(app.getState())), [app]);
+  useEffect(() => {
+    const unsubscribe = app.subscribe(() => setState(app.getState()));
+    // A change between the first render and this effect (which runs after paint) would otherwise be
+    // missed: the app could sit on "Opening Plumbline…" although it had moved on.
+    setState(app.getState());
+    return unsubscribe;
+  }, [app]);
   return state;
 }

@@ -50,7 +50,23 @@ export async function recordsOnServer(store: ServerStore): Promise<Map<string, n
 
 /** Enrols the tablet with a fresh code and signs a demo person in. */
 export async function enrolAndSignIn(page: Page, site: DemoSite, login: string, pin: string, tabletName = 'Line tablet'): Promise<void> {
+  const logs: string[] = [];
+  const onConsole = (m: { type(): string; text(): string }) => logs.push(`${m.type()}: ${m.text()}`);
+  const onError = (e: Error) => logs.push(`pageerror: ${e.message}`);
+  page.on('console', onConsole);
+  page.on('pageerror', onError);
   await page.goto(site.base);
+  try {
+    await page.getByLabel('Connection code').waitFor({ timeout: 20_000 });
+  } catch (e) {
+    // Say what the page showed instead, so a failure here can be understood from the CI log.
+    const shown = await page.evaluate(() => document.body.innerText.slice(0, 400)).catch((x: unknown) => String(x));
+    await page.screenshot({ path: 'test-results/screenshots/enrol-failure.png' }).catch(() => undefined);
+    throw new Error(`The enrol screen did not appear at ${site.base}. Page text: ${JSON.stringify(shown)}. Console: ${JSON.stringify(logs.slice(-20))}. ${String(e)}`);
+  } finally {
+    page.off('console', onConsole);
+    page.off('pageerror', onError);
+  }
   await page.getByLabel('Connection code').fill(await site.newCode());
   await page.getByLabel('Name of this tablet').fill(tabletName);
   await page.getByRole('button', { name: 'Connect tablet' }).click();
