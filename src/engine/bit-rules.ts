@@ -133,16 +133,13 @@ function buildSignals(
 
 /** One word per 32 points for each zone test, the rule patterns, and which points fire. */
 interface Planes {
-  // From the values: above the centre (z > 0), beyond ±1σ, above the previous value, beyond ±2σ,
-  // beyond ±3σ, exactly on the centre (z = 0), level with the previous value (or the first
-  // point: no previous), companion spread beyond its limits.
+  // From the values: above the centre (z > 0), beyond ±1σ, above the previous value, beyond ±3σ,
+  // companion spread beyond its limits. (Beyond ±2σ, on the centre and level with the previous
+  // value are used within the classification only: kept in the planes derived from them.)
   readonly P: Int32Array;
   readonly O1: Int32Array;
   readonly UP: Int32Array;
-  readonly X2: Int32Array;
   readonly X3: Int32Array;
-  readonly Z: Int32Array;
-  readonly E: Int32Array;
   readonly CF: Int32Array;
   // Derived: below the centre, down from the previous value, beyond +1σ, −1σ, +2σ, −2σ.
   readonly M: Int32Array;
@@ -175,7 +172,7 @@ function scratch(W: number): Planes {
     const a = (): Int32Array => new Int32Array(size);
     // A literal keeps the object's shape fixed (fast property access in the loops).
     planesCache = {
-      P: a(), O1: a(), UP: a(), X2: a(), X3: a(), Z: a(), E: a(), CF: a(), M: a(), DN: a(), U1: a(), D1: a(), U2: a(), D2: a(),
+      P: a(), O1: a(), UP: a(), X3: a(), CF: a(), M: a(), DN: a(), U1: a(), D1: a(), U2: a(), D2: a(),
       F23: a(), F45: a(), S8: a(), S9: a(), TREND: a(), TURN: a(), IN: a(), OUT: a(), F: a(),
     };
   }
@@ -204,7 +201,7 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
   const zHalf = Math.min(zMid - a0, a3 - zMid);
   const mLimit = movingRange ? cUcl : 1e6 * sigma;
   const mMid = mLimit > 0 && mLimit < Infinity ? mLimit / 2 : Infinity; // Infinity: every point to the exact tests
-  const { P, O1, UP, X2, X3, Z, E, CF, M, DN, U1, D1, U2, D2, F } = pl;
+  const { P, O1, UP, X3, CF, M, DN, U1, D1, U2, D2, F } = pl;
   const W = (n + 31) >>> 5;
   let prev = values[cs]!; // the first point has no previous one: level
   for (let w = 0; w < W; w++) {
@@ -278,7 +275,7 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
       cf |= bit(s > cUcl || s < cLcl) << b;
     }
     const m = ~p & ~z; // below: neither above nor on the centre (bits past the last point are never read)
-    P[w] = p; O1[w] = o1; UP[w] = up; X2[w] = x2; X3[w] = x3; Z[w] = z; E[w] = e; CF[w] = cf;
+    P[w] = p; O1[w] = o1; UP[w] = up; X3[w] = x3; CF[w] = cf;
     F[w] = cf | (r1 & x3);
     M[w] = m;
     DN[w] = ~up & ~e;
