@@ -3,12 +3,12 @@
  * another out of the limit calculation, each with a reason; both reach the server as new records
  * that supersede the originals, which stay in the record (nothing is overwritten).
  */
-import type { BrowserContext, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_SITE_ID } from '../../src/server/demo/demo-site';
 import type { Sample } from '../../src/schema';
-import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { enrolAndSignIn, startDemoSite, syncNow, type DemoSite } from './site';
+import { browserAvailable } from './browser';
+import { enrolAndSignIn, pageOf, syncNow, useDemoSite, type DemoSite } from './site';
 
 const run = browserAvailable();
 
@@ -28,21 +28,11 @@ async function samplesOnServer(site: DemoSite): Promise<Sample[]> {
 }
 
 describe.skipIf(!run)('corrections and exclusions', () => {
-  let site: DemoSite;
-  let tablet: BrowserContext;
-
-  beforeAll(async () => {
-    distBuilt();
-    site = await startDemoSite();
-    tablet = await launchTablet({ width: 800, height: 1280 });
-  });
-  afterAll(async () => {
-    await tablet?.close();
-    await site?.close();
-  });
+  const fx = useDemoSite([{ width: 800, height: 1280 }]);
 
   it('supersede the originals with a reason and keep them', async () => {
-    const page = tablet.pages()[0] ?? (await tablet.newPage());
+    const site = fx.site();
+    const page = await pageOf(fx.tablets()[0]!);
     const errors: string[] = [];
     page.on('pageerror', (e) => errors.push(e.message));
     await enrolAndSignIn(page, site, 'imogen', '8642', 'Engineer tablet');

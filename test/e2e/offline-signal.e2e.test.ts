@@ -4,13 +4,12 @@
  * answer the prompt, go online, and check that the server holds the sample and the response
  * exactly once.
  */
-import { mkdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import type { BrowserContext, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_SITE_ID } from '../../src/server/demo/demo-site';
-import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite, syncNow } from './site';
+import { browserAvailable } from './browser';
+import { enrolAndSignIn, pageOf, recordsOnServer, syncNow, useDemoSite } from './site';
 
 const run = browserAvailable();
 const SHOTS = resolve('test-results/screenshots');
@@ -20,23 +19,12 @@ async function shot(page: Page, name: string) {
 }
 
 describe.skipIf(!run)('a tablet offline: record, flag, answer, sync', () => {
-  let site: DemoSite;
-  let tablet: BrowserContext;
-
-  beforeAll(async () => {
-    distBuilt();
-    mkdirSync(SHOTS, { recursive: true });
-    site = await startDemoSite();
-    tablet = await launchTablet();
-  });
-
-  afterAll(async () => {
-    await tablet?.close();
-    await site?.close();
-  });
+  const fx = useDemoSite();
 
   it('works end to end', async () => {
-    const page = tablet.pages()[0] ?? (await tablet.newPage());
+    const site = fx.site();
+    const tablet = fx.tablets()[0]!;
+    const page = await pageOf(tablet);
     const errors: string[] = [];
     page.on('pageerror', (e) => errors.push(e.message));
     await enrolAndSignIn(page, site, 'rana', '2468', 'Assembly tablet');

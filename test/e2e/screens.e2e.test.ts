@@ -2,14 +2,13 @@
  * Every screen at tablet sizes, in the light and the dark theme: axe-core finds no WCAG 2.1 AA
  * violation, and a screenshot of each is kept in test-results/screenshots for people to look at.
  */
-import { mkdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import type { BrowserContext, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_CHARACTERISTICS } from '../../src/server/demo/demo-site';
 import { axeViolations } from './axe';
-import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { signIn, startDemoSite, type DemoSite } from './site';
+import { browserAvailable } from './browser';
+import { pageOf, signIn, useDemoSite } from './site';
 
 const run = browserAvailable();
 const SHOTS = resolve('test-results/screenshots');
@@ -30,22 +29,11 @@ async function check(page: Page, name: string): Promise<string[]> {
 }
 
 describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
-  let site: DemoSite;
-  let tablet: BrowserContext;
-
-  beforeAll(async () => {
-    distBuilt();
-    mkdirSync(SHOTS, { recursive: true });
-    site = await startDemoSite();
-    tablet = await launchTablet();
-  });
-  afterAll(async () => {
-    await tablet?.close();
-    await site?.close();
-  });
+  const fx = useDemoSite();
 
   it('have no accessibility violations', async () => {
-    const page = tablet.pages()[0] ?? (await tablet.newPage());
+    const site = fx.site();
+    const page = await pageOf(fx.tablets()[0]!);
     const errors: string[] = [];
     page.on('pageerror', (e) => errors.push(e.message));
     const problems: string[] = [];

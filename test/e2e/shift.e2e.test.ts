@@ -4,32 +4,20 @@
  * The page clock is driven by Playwright so the samples are an hour apart, as on the floor.
  */
 import type { BrowserContext } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite, syncNow } from './site';
+import { describe, expect, it } from 'vitest';
+import { browserAvailable } from './browser';
+import { enrolAndSignIn, pageOf, recordsOnServer, syncNow, useDemoSite } from './site';
 
 const run = browserAvailable();
 const HOURS = 8;
 
 describe.skipIf(!run)('a shift offline, then synced and signed off', () => {
-  let site: DemoSite;
-  let operator: BrowserContext;
-  let supervisor: BrowserContext;
-
-  beforeAll(async () => {
-    distBuilt();
-    site = await startDemoSite();
-    operator = await launchTablet({ width: 1280, height: 800 });
-    supervisor = await launchTablet({ width: 800, height: 1280 });
-  });
-  afterAll(async () => {
-    await operator?.close();
-    await supervisor?.close();
-    await site?.close();
-  });
+  const fx = useDemoSite([{ width: 1280, height: 800 }, { width: 800, height: 1280 }]);
 
   it('loses nothing and duplicates nothing', async () => {
-    const page = operator.pages()[0] ?? (await operator.newPage());
+    const site = fx.site();
+    const [operator, supervisor] = fx.tablets() as [BrowserContext, BrowserContext];
+    const page = await pageOf(operator);
     const errors: string[] = [];
     page.on('pageerror', (e) => errors.push(e.message));
     await page.clock.install({ time: new Date() });
@@ -76,7 +64,7 @@ describe.skipIf(!run)('a shift offline, then synced and signed off', () => {
     expect(added.every(([, n]) => n === 1)).toBe(true);
 
     // The supervisor's tablet pulls the shift and signs off the answered signal.
-    const sup = supervisor.pages()[0] ?? (await supervisor.newPage());
+    const sup = await pageOf(supervisor);
     await enrolAndSignIn(sup, site, 'tomasz', '1357', 'Supervisor tablet');
     await sup.getByRole('navigation', { name: 'Stations' }).getByRole('button', { name: 'Turning cell T4' }).click();
     await sup.getByTestId('tile-bore-dia').click();

@@ -1,7 +1,9 @@
-import { mkdtempSync } from 'node:fs';
+import { mkdirSync, mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import type { Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
+import { distBuilt, launchTablet } from './browser';
 import { createServer } from '../../src/server/create-server';
 import { DEMO_SITE_ID } from '../../src/server/demo/demo-site';
 import { seedDemo } from '../../src/server/demo/seed-demo';
@@ -89,4 +91,32 @@ export async function syncNow(page: Page): Promise<void> {
   await sheet.getByTestId('sync-now').filter({ hasText: 'Sync now' }).waitFor({ timeout: 20_000 });
   await sheet.getByRole('button', { name: 'Close' }).click();
   await sheet.waitFor({ state: 'detached' });
+}
+
+/**
+ * The usual fixture of a browser test file: a demo site and one Chromium profile (a tablet) per
+ * size given, started before the file's tests and closed after them.
+ */
+export function useDemoSite(sizes: readonly { width: number; height: number }[] = [{ width: 1280, height: 800 }]): {
+  readonly site: () => DemoSite;
+  readonly tablets: () => readonly BrowserContext[];
+} {
+  let site: DemoSite | undefined;
+  const tablets: BrowserContext[] = [];
+  beforeAll(async () => {
+    distBuilt();
+    mkdirSync('test-results/screenshots', { recursive: true });
+    site = await startDemoSite();
+    for (const size of sizes) tablets.push(await launchTablet(size));
+  });
+  afterAll(async () => {
+    for (const t of tablets) await t.close();
+    await site?.close();
+  });
+  return { site: () => site!, tablets: () => tablets };
+}
+
+/** The first tab of a tablet. */
+export async function pageOf(tablet: BrowserContext): Promise<Page> {
+  return tablet.pages()[0] ?? (await tablet.newPage());
 }

@@ -2,10 +2,10 @@
  * Two tablets at the same station record offline at the same time, then sync; a supervisor's
  * tablet pulls the site and holds every record of both exactly once (issue 5).
  */
-import type { BrowserContext, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { enrolAndSignIn, recordsOnServer, startDemoSite, type DemoSite, syncNow } from './site';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserAvailable } from './browser';
+import { enrolAndSignIn, pageOf, recordsOnServer, syncNow, useDemoSite } from './site';
 
 const run = browserAvailable();
 const EACH = 6;
@@ -32,21 +32,12 @@ function samplesInDevice(page: Page): Promise<string[]> {
 }
 
 describe.skipIf(!run)('two tablets offline at one station, one supervisor', () => {
-  let site: DemoSite;
-  const tablets: BrowserContext[] = [];
-
-  beforeAll(async () => {
-    distBuilt();
-    site = await startDemoSite();
-    for (let i = 0; i < 3; i++) tablets.push(await launchTablet({ width: 1280, height: 800 }));
-  });
-  afterAll(async () => {
-    for (const t of tablets) await t.close();
-    await site?.close();
-  });
+  const fx = useDemoSite([{ width: 1280, height: 800 }, { width: 1280, height: 800 }, { width: 1280, height: 800 }]);
 
   it('every record of both tablets reaches the supervisor exactly once', async () => {
-    const [a, b, sup] = await Promise.all(tablets.map(async (t) => t.pages()[0] ?? (await t.newPage())));
+    const site = fx.site();
+    const tablets = fx.tablets();
+    const [a, b, sup] = await Promise.all(tablets.map(pageOf));
     await enrolAndSignIn(a!, site, 'rana', '2468', 'Assembly tablet A');
     await enrolAndSignIn(b!, site, 'tomasz', '1357', 'Assembly tablet B');
     for (const p of [a!, b!]) {

@@ -3,10 +3,10 @@
  * keep in-memory copies of the records and tell each other what changed), and the one sender
  * of the tablet sends it exactly once.
  */
-import type { BrowserContext, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { browserAvailable, distBuilt, launchTablet } from './browser';
-import { enrolAndSignIn, recordsOnServer, signIn, startDemoSite, syncNow, type DemoSite } from './site';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { browserAvailable } from './browser';
+import { enrolAndSignIn, pageOf, recordsOnServer, signIn, syncNow, useDemoSite } from './site';
 
 const run = browserAvailable();
 const points = async (page: Page) => Number(await page.locator('.figure', { hasText: 'Points' }).locator('.v').innerText());
@@ -18,21 +18,12 @@ async function openTorque(page: Page) {
 }
 
 describe.skipIf(!run)('two tabs on one tablet', () => {
-  let site: DemoSite;
-  let tablet: BrowserContext;
-
-  beforeAll(async () => {
-    distBuilt();
-    site = await startDemoSite();
-    tablet = await launchTablet();
-  });
-  afterAll(async () => {
-    await tablet?.close();
-    await site?.close();
-  });
+  const fx = useDemoSite();
 
   it('see each other’s samples at once; each sample reaches the server once', async () => {
-    const a = tablet.pages()[0] ?? (await tablet.newPage());
+    const site = fx.site();
+    const tablet = fx.tablets()[0]!;
+    const a = await pageOf(tablet);
     await enrolAndSignIn(a, site, 'rana', '2468', 'Assembly tablet');
     await openTorque(a);
     const b = await tablet.newPage();
