@@ -133,43 +133,25 @@ export class SubgroupStats {
     // Moving ranges from the second point of the phase on (none for X̄ charts); not stored here.
     const mrFrom = this.usesMovingRange ? Math.min(end, Math.max(first, phaseStart + 1)) : end;
     if (phaseStart >= first && phaseStart < end) this.pendingStarts.push(phaseStart);
-    let prev = first > 0 ? v[first - 1]! : NaN;
-    // A typed array is copied in one block and read back; other arrays value by value.
-    let src: ArrayLike<number> = values;
-    let off = from - first; // point i is src[i + off]
+    const prev = first > 0 ? v[first - 1]! : NaN;
+    // The point after which moving ranges count: the first point of the batch when the moving range
+    // to the point before it is not the batch's own (it starts the phase or follows an earlier batch).
+    const mrStart = mrFrom === first && first < end ? first + 1 : mrFrom;
+    // A typed array is copied in one block and read back; other arrays value by value. The loops
+    // are functions of their own (one array type each), so that they are compiled on their own
+    // feedback whatever the code around them has seen (in this method, the loop's doubles were at
+    // times left boxed: about 48 bytes allocated per value).
     if (typed) {
       if (!copied) v.set(values.subarray(from, to), first);
-      src = v;
-      off = 0;
+      sumValues(v, first, mrStart, end, prev);
+    } else {
+      copyAndSumValues(values, from - first, v, first, mrStart, end, prev);
     }
-    const copy = src !== v;
     // Σx doubles as the check that every value is finite (a NaN or ±Infinity makes it non-finite);
     // the baseline estimate reuses both sums when its range is this batch (same order of addition).
-    let sum = 0;
-    let mrSum = 0;
-    let i = first;
-    for (; i < mrFrom; i++) {
-      const x = src[i + off]!;
-      sum += x;
-      if (copy) v[i] = x;
-      prev = x;
-    }
-    if (i === first && i < end) {
-      // the moving range to the point before this batch is not the batch's own
-      const x = src[i + off]!;
-      sum += x;
-      if (copy) v[i] = x;
-      prev = x;
-      i++;
-    }
-    const mrCount = end - i;
-    for (; i < end; i++) {
-      const x = src[i + off]!;
-      sum += x;
-      if (copy) v[i] = x;
-      mrSum += Math.abs(x - prev);
-      prev = x;
-    }
+    const sum = SUMS[0]!;
+    const mrSum = SUMS[1]!;
+    const mrCount = end - mrStart;
     if (!Number.isFinite(sum)) {
       for (let j = from, i = first; j < to; j++, i++) {
         const x = values[j]!;
@@ -309,4 +291,49 @@ function ones(n: number): Float64Array {
 function zeros(n: number): Uint8Array {
   if (ZEROS.length < n) ZEROS = new Uint8Array(Math.max(n, 2 * ZEROS.length, 64));
   return ZEROS;
+}
+
+// Σx and Σ|moving range| of a batch, left in SUMS (no object per call). Points [first, end);
+// moving ranges of the points [mrStart, end), each to the point before it (`prev` before `first`).
+const SUMS = new Float64Array(2);
+
+function sumValues(v: Float64Array, first: number, mrStart: number, end: number, prev: number): void {
+  let sum = 0;
+  let mrSum = 0;
+  let i = first;
+  for (; i < mrStart; i++) {
+    const x = v[i]!;
+    sum += x;
+    prev = x;
+  }
+  for (; i < end; i++) {
+    const x = v[i]!;
+    sum += x;
+    mrSum += Math.abs(x - prev);
+    prev = x;
+  }
+  SUMS[0] = sum;
+  SUMS[1] = mrSum;
+}
+
+// The same for a plain array, copying each value into the column (point i is values[i + off]).
+function copyAndSumValues(values: ArrayLike<number>, off: number, v: Float64Array, first: number, mrStart: number, end: number, prev: number): void {
+  let sum = 0;
+  let mrSum = 0;
+  let i = first;
+  for (; i < mrStart; i++) {
+    const x = values[i + off]!;
+    sum += x;
+    v[i] = x;
+    prev = x;
+  }
+  for (; i < end; i++) {
+    const x = values[i + off]!;
+    sum += x;
+    v[i] = x;
+    mrSum += Math.abs(x - prev);
+    prev = x;
+  }
+  SUMS[0] = sum;
+  SUMS[1] = mrSum;
 }
