@@ -62,6 +62,7 @@ export interface SignalPrompt {
 export type Screen =
   | { readonly name: 'board' }
   | { readonly name: 'overview' }
+  | { readonly name: 'handover' }
   | { readonly name: 'characteristic'; readonly characteristicId: string };
 
 export interface AppState {

@@ -344,7 +344,7 @@ export function createPlumblineApp(deps: AppDeps) {
       set({ screen, error: undefined });
       records.clear(); // opening a screen reads afresh: another tab may have written
       if (screen.name === 'characteristic') void refreshViews([screen.characteristicId]);
-      else if (screen.name === 'overview') void refreshViews(state.setup.characteristics.map((c) => c.id));
+      else if (screen.name === 'overview' || screen.name === 'handover') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else void refreshViews();
     },
 

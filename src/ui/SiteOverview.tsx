@@ -12,7 +12,10 @@ export function SiteOverview({ state, actions }: { state: AppState; actions: App
     <main class="main stack">
       <div class="row" style="justify-content:space-between">
         <h1>Site overview</h1>
-        <button type="button" class="btn small" onClick={() => actions.open({ name: 'board' })}>Back to my station</button>
+        <div class="row" style="gap:8px">
+          <button type="button" class="btn small" onClick={() => actions.open({ name: 'handover' })} data-testid="open-handover">Shift handover</button>
+          <button type="button" class="btn small" onClick={() => actions.open({ name: 'board' })}>Back to my station</button>
+        </div>
       </div>
       <div class="figures" aria-label="Site totals">
         <div class="figure"><div class="k">Signals without an answer</div><div class="v" data-testid="total-open">{open}</div></div>

@@ -60,6 +60,12 @@ describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
       await page.getByTestId('open-overview').click();
       await page.getByRole('heading', { name: 'Site overview' }).waitFor();
       problems.push(...(await check(page, `site-overview-${theme}`)));
+      await page.getByTestId('open-handover').click();
+      await page.getByTestId('handover-table').waitFor();
+      // The demo's last 8 hours: samples were taken, and the open burst of blemishes is listed.
+      expect(await page.getByTestId('handover-table').innerText()).toContain('Coating blemishes per panel');
+      problems.push(...(await check(page, `handover-${theme}`)));
+      await page.getByRole('button', { name: 'Site overview' }).click();
       await page.getByRole('button', { name: 'Back to my station' }).click();
       for (const ch of DEMO_CHARACTERISTICS) {
         if (await back.count()) await back.click();
