@@ -337,3 +337,16 @@ function copyAndSumValues(values: ArrayLike<number>, off: number, v: Float64Arra
   SUMS[0] = sum;
   SUMS[1] = mrSum;
 }
+
+// Every line of both functions run a few times at load, on 100 values (enough for the engine to
+// start recording type feedback, which it does only once a function has done some work): a long
+// first batch then has its running loop replaced by compiled code that knows the stores after the
+// loop, instead of code that leaves the function at them, over and over, while that code is kept.
+{
+  const warm = new Float64Array(100);
+  const list = new Array<number>(100).fill(0);
+  for (let k = 0; k < 4; k++) {
+    sumValues(warm, 0, 1, 100, NaN);
+    copyAndSumValues(list, 0, warm, 0, 1, 100, NaN);
+  }
+}
