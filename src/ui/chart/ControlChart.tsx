@@ -155,7 +155,12 @@ export function ControlChart(props: ControlChartProps) {
     const opts: uPlot.Options = {
       width: el.clientWidth || 600,
       height: latest.current.height,
-      scales: { x: { time: false } },
+      scales: {
+        x: { time: false },
+        // With nothing to plot yet (no samples, or limits not computed) uPlot has no y range and its
+        // axis code fails: give it a neutral one until there is data.
+        y: { range: (_u, min, max) => (min === null || max === null || !Number.isFinite(min) || !Number.isFinite(max) ? [0, 1] : uPlot.rangeNum(min, max, 0.1, true)) },
+      },
       legend: { show: false },
       cursor: { drag: { x: true, y: false }, points: { size: 12 } },
       axes: [
