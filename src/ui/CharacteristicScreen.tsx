@@ -1,4 +1,6 @@
 import type { AppActions, AppState } from '../app/app-state';
+import { useState } from 'preact/hooks';
+import { CapabilityPanel } from './chart/CapabilityPanel';
 import { ChartPanel } from './chart/ChartPanel';
 import { EntryPanel } from './EntryPanel';
 import { SafetyCaution } from './SafetyCaution';
@@ -9,6 +11,7 @@ import { StateChips } from './state-chips';
 export function CharacteristicScreen({ state, actions, characteristicId, separator }: {
   state: AppState; actions: AppActions; characteristicId: string; separator: ',' | '.';
 }) {
+  const [showCapability, setShowCapability] = useState(false);
   const view = state.views[characteristicId];
   const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
   if (!ch) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
@@ -43,6 +46,13 @@ export function CharacteristicScreen({ state, actions, characteristicId, separat
               <div class="figure"><div class="k">Phase</div><div class="v">{view!.analysis.phases.length}{phase.provisional ? ' (provisional)' : ''}</div></div>
             </div>
           ) : null}
+          {view ? (
+            <button type="button" class="btn small" style="align-self:flex-start" aria-expanded={showCapability}
+              onClick={() => setShowCapability(!showCapability)} data-testid="toggle-capability">
+              {showCapability ? 'Hide capability study' : 'Capability study'}
+            </button>
+          ) : null}
+          {view && showCapability ? <CapabilityPanel view={view} /> : null}
         </div>
         <div class="area-entry">{view ? <EntryPanel view={view} actions={actions} separator={separator} /> : null}</div>
         <section class="card stack area-signals" aria-labelledby="signals-title">

@@ -80,6 +80,13 @@ describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
         await tile.click();
         await page.getByTestId('main-chart').locator('canvas').first().waitFor();
         problems.push(...(await check(page, `characteristic-${ch.id}-${theme}`)));
+        if (ch.id === 'bore-dia') {
+          await page.getByTestId('toggle-capability').click();
+          await page.getByTestId('capability-panel').scrollIntoViewIfNeeded();
+          expect(await page.getByTestId('capability-panel').innerText()).toContain('Cpk');
+          problems.push(...(await check(page, `capability-${theme}`)));
+          await page.getByTestId('toggle-capability').click();
+        }
       }
       // The point details panel, and the prompt of the demo's open signal (the late burst of coating blemishes).
       await back.click();
