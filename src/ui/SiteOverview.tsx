@@ -1,4 +1,5 @@
 import type { AppActions, AppState } from '../app/app-state';
+import { CausesPanel } from './CausesPanel';
 import { StateChips } from './state-chips';
 
 /** Every line and station of the site at a glance: open signals, late samples, what is quiet. */
@@ -23,6 +24,7 @@ export function SiteOverview({ state, actions }: { state: AppState; actions: App
         <div class="figure"><div class="k">Late samples</div><div class="v">{late}</div></div>
         <div class="figure"><div class="k">Waiting to send</div><div class="v">{state.sync.pending}</div></div>
       </div>
+      <CausesPanel state={state} />
       {lines.map((line) => (
         <section class="card stack" key={line.id} aria-labelledby={`line-${line.id}`}>
           <h2 id={`line-${line.id}`}>{line.name}</h2>

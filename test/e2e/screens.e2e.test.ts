@@ -59,6 +59,7 @@ describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
       await page.getByTestId('sync-sheet').getByRole('button', { name: 'Close' }).click();
       await page.getByTestId('open-overview').click();
       await page.getByRole('heading', { name: 'Site overview' }).waitFor();
+      await expect.poll(() => page.getByTestId('causes-panel').innerText()).toContain('Machine'); // the demo's answers name causes
       problems.push(...(await check(page, `site-overview-${theme}`)));
       await page.getByTestId('open-handover').click();
       await page.getByTestId('handover-table').waitFor();

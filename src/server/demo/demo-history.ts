@@ -115,7 +115,7 @@ export function buildDemoHistory(now: Date, seed = DEMO_SEED): DemoHistory {
       };
       responses.push(response);
       // The supervisor acknowledges the designed events and every third of the others.
-      const designed = story.causeCategory !== 'Measurement';
+      const designed = story === model.effect?.story || story === TORQUE_OUTLIER.story;
       if (designed || responses.length % 3 === 0) {
         const at = respondedAt + integerBetween(rng, 1, 5) * HOUR;
         if (at < now.getTime()) {
@@ -228,13 +228,24 @@ function snapshotOf(signal: Signal, analysis: Analysis, samples: readonly Sample
 function storyFor(c: Characteristic, model: ProcessModel, index: number, effectEnd: number): Story {
   if (model.effect && index >= model.effect.from && index <= effectEnd + 2) return model.effect.story;
   if (c.id === 'bonnet-torque' && (index === TORQUE_OUTLIER.index || index === TORQUE_OUTLIER.index + 1)) return TORQUE_OUTLIER.story;
-  return {
-    whatHappened: 'The rule fired with no visible change at the station.',
-    causeCategory: 'Measurement',
-    cause: 'No assignable cause found',
-    action: `${c.reactionPlan[0] ?? 'Checked the station.'} Result normal; process left running.`,
-  };
+  // The other signals get the small, everyday findings of a line (invented for the demo), and
+  // now and then none at all: a real Pareto has a long tail and some honest "nothing found".
+  const minor = MINOR_FINDINGS[index % MINOR_FINDINGS.length]!;
+  return { ...minor, action: `${c.reactionPlan[0] ?? 'Checked the station.'} ${minor.action}` };
 }
+
+const GAUGE: Story = { whatHappened: 'The rule fired with no visible change at the station.', causeCategory: 'Measurement', cause: 'Gauge not zeroed at the start of the shift', action: 'Zeroed the gauge and re-measured; result normal.' };
+const TOOL_CHANGE: Story = { whatHappened: 'The rule fired just after a tool change.', causeCategory: 'Method', cause: 'Tool change without the first-off check', action: 'First-off check done; result normal.' };
+/** Weighted like a real line's findings: a vital few (gauge zeroing, tool changes) and a long tail. */
+const MINOR_FINDINGS: readonly Story[] = [
+  GAUGE, TOOL_CHANGE, GAUGE,
+  { whatHappened: 'Readings moved after the shift change.', causeCategory: 'People', cause: 'New operator on the station, first shift', action: 'Went through the work instruction together; next samples normal.' },
+  GAUGE, TOOL_CHANGE,
+  { whatHappened: 'Bay doors open for a delivery; the hall cooled down.', causeCategory: 'Environment', cause: 'Hall temperature dropped during the delivery', action: 'Doors closed; process left running, next samples normal.' },
+  GAUGE,
+  { whatHappened: 'Parts from a new pallet of stock.', causeCategory: 'Material', cause: 'New batch of stock', action: 'Batch noted on the shift sheet; no change needed.' },
+  { whatHappened: 'The rule fired with no visible change at the station.', causeCategory: 'Measurement', cause: 'No assignable cause found', action: 'Result normal; process left running.' },
+];
 
 function timeOf(r: Sample | Response | Acknowledgement): number {
   return Date.parse(r.kind === 'sample' ? r.takenAt : r.kind === 'response' ? r.respondedAt : r.at);
