@@ -1,6 +1,8 @@
 import type { AppActions, AppState } from '../app/app-state';
 import { useState } from 'preact/hooks';
+import { historyToCsv } from '../app/export-csv';
 import { CapabilityPanel } from './chart/CapabilityPanel';
+import { downloadText } from './download';
 import { ChartPanel } from './chart/ChartPanel';
 import { EntryPanel } from './EntryPanel';
 import { SafetyCaution } from './SafetyCaution';
@@ -47,10 +49,18 @@ export function CharacteristicScreen({ state, actions, characteristicId, separat
             </div>
           ) : null}
           {view ? (
-            <button type="button" class="btn small" style="align-self:flex-start" aria-expanded={showCapability}
-              onClick={() => setShowCapability(!showCapability)} data-testid="toggle-capability">
-              {showCapability ? 'Hide capability study' : 'Capability study'}
-            </button>
+            <div class="row" style="gap:8px">
+              <button type="button" class="btn small" aria-expanded={showCapability}
+                onClick={() => setShowCapability(!showCapability)} data-testid="toggle-capability">
+                {showCapability ? 'Hide capability study' : 'Capability study'}
+              </button>
+              <button type="button" class="btn small" data-testid="export-csv" onClick={() => {
+                const people = new Map(state.setup.people.map((p) => [p.id, p.name]));
+                downloadText(`${ch.id}-history.csv`, historyToCsv(view, (id) => people.get(id) ?? id), 'text/csv');
+              }}>
+                Export history (CSV)
+              </button>
+            </div>
           ) : null}
           {view && showCapability ? <CapabilityPanel view={view} /> : null}
         </div>

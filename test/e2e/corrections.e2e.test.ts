@@ -76,6 +76,13 @@ describe.skipIf(!run)('corrections and exclusions', () => {
       expect(original.excluded).toBeUndefined();
       expect(before.find((b) => b.id === original.id)).toEqual(original);
     }
+    // The history exports as CSV with the correction in place and its reason.
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-csv').click()]);
+    expect(download.suggestedFilename()).toBe('bore-dia-history.csv');
+    const csv = await (await import('node:fs/promises')).readFile((await download.path())!, 'utf8');
+    expect(csv.split('\r\n')[0]).toContain('correction_or_exclusion_reason');
+    expect(csv).toContain('Digits swapped on the third value');
+    expect(csv).toContain('Set-up part after the insert change');
     expect(errors).toEqual([]);
   });
 });
