@@ -138,7 +138,8 @@ export function createPlumblineApp(deps: AppDeps) {
   /**
    * The records behind each characteristic, read from IndexedDB once and then kept in step in
    * memory: a save appends to it, so the chart redraws without re-reading thousands of samples.
-   * A sync run (which may bring other tablets' records) empties it.
+   * It is emptied when a sync run brings other tablets' records or set-up, when another tab of the
+   * app says it wrote (BroadcastChannel), and when a person signs in.
    */
   const records = new Map<string, { samples: Sample[]; responses: Response[]; acks: Acknowledgement[] }>();
 
@@ -182,6 +183,22 @@ export function createPlumblineApp(deps: AppDeps) {
     if (state.stage === 'ready') void refreshViews(what === 'all' ? undefined : what.filter((id) => id in state.views));
   });
 
+  /**
+   * Saves a record made here (with its outbox row), keeps the in-memory copy in step and tells the
+   * other tabs. On failure the error says what was NOT saved, and false comes back.
+   */
+  async function commit(record: DeviceRecord, what: string): Promise<boolean> {
+    try {
+      await saveDeviceRecord(db, record, deps.now());
+    } catch (e) {
+      set({ error: `The ${what} was NOT saved: ${messageOf(e)}` });
+      return false;
+    }
+    remember(record);
+    announce([record.characteristicId]);
+    return true;
+  }
+
   /** Takes back a record whose write failed. */
   function forget(record: DeviceRecord) {
     const r = records.get(record.characteristicId);
@@ -195,7 +212,6 @@ export function createPlumblineApp(deps: AppDeps) {
     const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
     if (!ch) return undefined;
     const r = await recordsOf(ch.id);
-    
     return buildCharacteristicView(ch, state.setup.phases, resolveCorrections(r.samples), r.responses, r.acks, deps.now());
   }
 
@@ -342,7 +358,6 @@ export function createPlumblineApp(deps: AppDeps) {
     },
     open(screen: Screen) {
       set({ screen, error: undefined });
-      records.clear(); // opening a screen reads afresh: another tab may have written
       if (screen.name === 'characteristic') void refreshViews([screen.characteristicId]);
       else if (screen.name === 'overview' || screen.name === 'handover') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else void refreshViews();
@@ -405,14 +420,7 @@ export function createPlumblineApp(deps: AppDeps) {
         ...(answer.cause ? { cause: answer.cause } : {}),
         respondedBy: state.person.id, respondedAt: new Date(deps.now()).toISOString(), deviceId: identity.deviceId,
       };
-      try {
-        await saveDeviceRecord(db, response, deps.now());
-        remember(response);
-        announce([response.characteristicId]);
-      } catch (e) {
-        set({ error: `The answer was NOT saved: ${messageOf(e)}` });
-        return false;
-      }
+      if (!(await commit(response, 'answer'))) return false;
       set({ prompt: undefined });
       await refreshViews([prompt.characteristicId]);
       toast('Answer saved on this tablet');
@@ -437,18 +445,11 @@ export function createPlumblineApp(deps: AppDeps) {
         set({ error: 'Only a supervisor, engineer or admin can sign off a signal.' });
         return false;
       }
-      try {
-        const ack: Acknowledgement = {
-          kind: 'ack', id: deps.newId(), responseId, characteristicId, by: state.person.id,
-          at: new Date(deps.now()).toISOString(), deviceId: identity.deviceId, ...(note ? { note } : {}),
-        };
-        await saveDeviceRecord(db, ack, deps.now());
-        remember(ack);
-        announce([ack.characteristicId]);
-      } catch (e) {
-        set({ error: `The sign-off was NOT saved: ${messageOf(e)}` });
-        return false;
-      }
+      const ack: Acknowledgement = {
+        kind: 'ack', id: deps.newId(), responseId, characteristicId, by: state.person.id,
+        at: new Date(deps.now()).toISOString(), deviceId: identity.deviceId, ...(note ? { note } : {}),
+      };
+      if (!(await commit(ack, 'sign-off'))) return false;
       await refreshViews([characteristicId]);
       sendSoon();
       return true;
@@ -534,14 +535,7 @@ export function createPlumblineApp(deps: AppDeps) {
       recordedBy: state.person!.id, deviceId: identity!.deviceId,
     };
     for (const k of Object.keys(replacement) as (keyof Sample)[]) if (replacement[k] === undefined) delete replacement[k];
-    try {
-      await saveDeviceRecord(db, replacement, deps.now());
-      remember(replacement);
-      announce([replacement.characteristicId]);
-    } catch (e) {
-      set({ error: `The ${what} was NOT saved: ${messageOf(e)}` });
-      return false;
-    }
+    if (!(await commit(replacement, what))) return false;
     await refreshViews([characteristicId]);
     toast(`The ${what} is saved on this tablet; the original stays in the record`);
     sendSoon();
