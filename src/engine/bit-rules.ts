@@ -325,7 +325,11 @@ function classify(
     if (windows !== 0) {
       // 2 of 3 beyond 2σ and 4 of 5 beyond 1σ on one side, the newest point among them.
       const f23 = (u2 & (sh(u2, pu2, 1) | sh(u2, pu2, 2))) | (d2 & (sh(d2, pd2, 1) | sh(d2, pd2, 2)));
-      const f45 = fourOfFiveOf(u1, pu1) | fourOfFiveOf(d1, pd1);
+      // 4 of 5: the newest point and at least 3 of the 4 before it (written out: the loop is too
+      // large for the compiler to inline a helper here)
+      const ua = sh(u1, pu1, 1), ub = sh(u1, pu1, 2), uc = sh(u1, pu1, 3), ud = sh(u1, pu1, 4);
+      const da = sh(d1, pd1, 1), db = sh(d1, pd1, 2), dc = sh(d1, pd1, 3), dd = sh(d1, pd1, 4);
+      const f45 = (u1 & ((ua & ub & (uc | ud)) | (uc & ud & (ua | ub)))) | (d1 & ((da & db & (dc | dd)) | (dc & dd & (da | db))));
       F23[w] = f23;
       F45[w] = f45;
       fire |= (r23 & f23) | (r45 & f45);
@@ -356,12 +360,6 @@ function bit(c: boolean): number {
 /** Bit b of the result is bit b − k of the 64-bit string prv:cur (1 ≤ k ≤ 31). */
 function sh(cur: number, prv: number, k: number): number {
   return (cur << k) | (prv >>> (32 - k));
-}
-
-// Newest bit set and at least 3 of the 4 before it.
-function fourOfFiveOf(x: number, px: number): number {
-  const a = sh(x, px, 1), b = sh(x, px, 2), c = sh(x, px, 3), d = sh(x, px, 4);
-  return x & ((a & b & (c | d)) | (c & d & (a | b)));
 }
 
 // The points of a "2 of 3" window ending at i, oldest first: i and the one or two of the two
