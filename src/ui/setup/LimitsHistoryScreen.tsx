@@ -22,7 +22,7 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
         <button type="button" class="btn small no-print" onClick={() => window.print()}>Print</button>
       </div>
       <p class="hint">{ch.unit} · {ch.chartType.toUpperCase()} · {view.analysis.points.length} points · printed {formatShortDateTime(new Date(state.now).toISOString())}</p>
-      <div class="table-scroll card">
+      <div class="table-scroll card" tabIndex={0} role="region" aria-label={`Limits by phase of ${ch.name} (scrolls sideways)`}>
         <table class="history-table" data-testid="limits-history">
           <caption class="sr-only">Limits of each phase of {ch.name}</caption>
           <thead>
