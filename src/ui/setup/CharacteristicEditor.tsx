@@ -83,7 +83,7 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
                 {[0, 1, 2, 3, 4, 5, 6].map((d) => <option key={d} value={String(d)}>{d === 0 ? 'whole numbers' : (0).toFixed(d).replace(/0$/, '1')}</option>)}
               </select>
             </div>
-            <div class="entry-field setup-field">
+            <div class="entry-field setup-field wide-field">
               <label for="ch-station">Station</label>
               <select id="ch-station" class="text-input" value={form.stationId} onChange={(e) => input('stationId', (e.target as HTMLSelectElement).value)}
                 aria-invalid={errors.stationId ? 'true' : undefined} aria-describedby={errors.stationId ? 'ch-station-error' : undefined}>

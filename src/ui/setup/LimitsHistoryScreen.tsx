@@ -1,6 +1,7 @@
 import type { AppActions, AppState } from '../../app/app-state';
 import { SIGMA_METHOD_TEXT, limitsHistory, type LimitsHistoryRow } from '../../app/limits-history';
 import { formatShortDateTime } from '../format-time';
+import { CHART_SHORT_NAME } from './chart-names';
 import './setup.css';
 
 /** Each phase of a characteristic with its limits, how they were set, and how they moved from the phase before. Printable. */
@@ -21,7 +22,7 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
         <h1>Limits by phase: {ch.name}</h1>
         <button type="button" class="btn small no-print" onClick={() => window.print()}>Print</button>
       </div>
-      <p class="hint">{ch.unit} · {ch.chartType.toUpperCase()} · {view.analysis.points.length} points · printed {formatShortDateTime(new Date(state.now).toISOString())}</p>
+      <p class="hint">{ch.unit} · {CHART_SHORT_NAME[ch.chartType]} · {view.analysis.points.length} points · printed {formatShortDateTime(new Date(state.now).toISOString())}</p>
       <div class="table-scroll card" tabIndex={0} role="region" aria-label={`Limits by phase of ${ch.name} (scrolls sideways)`}>
         <table class="history-table" data-testid="limits-history">
           <caption class="sr-only">Limits of each phase of {ch.name}</caption>

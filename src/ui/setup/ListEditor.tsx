@@ -13,6 +13,7 @@ export function ListEditor({ idPrefix, itemLabel, items, onChange, addLabel, err
       <ol class="list-editor">
         {items.map((item, i) => (
           <li key={i} class="list-editor-row">
+            <span class="list-editor-no" aria-hidden="true">{i + 1}.</span>
             <label class="sr-only" for={`${idPrefix}-${i}`}>{itemLabel} {i + 1}</label>
             <input id={`${idPrefix}-${i}`} class="text-input" value={item} autoComplete="off"
               onInput={(e) => onChange(items.map((x, j) => (j === i ? (e.target as HTMLInputElement).value : x)))} />

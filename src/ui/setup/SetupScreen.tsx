@@ -2,6 +2,7 @@ import { useState } from 'preact/hooks';
 import type { AppActions, AppState } from '../../app/app-state';
 import { entityIdFor } from '../../app/characteristic-form';
 import type { Line, Station } from '../../schema';
+import { CHART_SHORT_NAME } from './chart-names';
 import { NameForm } from './NameForm';
 import { OfflineNotice } from './OfflineNotice';
 import './setup.css';
@@ -56,7 +57,7 @@ export function SetupScreen({ state, actions }: { state: AppState; actions: AppA
                 <ul class="char-list">
                   {setup.characteristics.filter((c) => c.stationId === st.id).map((c) => (
                     <li key={c.id} class="row" style="justify-content:space-between">
-                      <span>{c.name} <span class="hint">· {c.unit} · {c.chartType.toUpperCase()}</span></span>
+                      <span>{c.name} <span class="hint">· {c.unit} · {CHART_SHORT_NAME[c.chartType]}{c.safetyCritical ? ' · safety-critical' : ''}</span></span>
                       <button type="button" class="btn small" onClick={() => actions.open({ name: 'edit-characteristic', characteristicId: c.id })}
                         aria-label={`Change ${c.name}`}>Change</button>
                     </li>
