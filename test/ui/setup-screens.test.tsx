@@ -1,6 +1,6 @@
 // @vitest-environment happy-dom
 import { cleanup, fireEvent, render, screen, within } from '@testing-library/preact';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import { buildCharacteristicView } from '../../src/app/build-view';
 import type { Person } from '../../src/schema';
 import { CharacteristicScreen } from '../../src/ui/CharacteristicScreen';
@@ -172,5 +172,32 @@ describe('SetupScreen', () => {
     fireEvent.submit(screen.getByLabelText('New name of the line').closest('form')!);
     expect(screen.getByText('Give a name.')).toBeTruthy();
     expect(actions.saveSetup).toHaveBeenCalledTimes(1);
+  });
+});
+
+describe('SiteCausesEditor (on the set-up screen)', () => {
+  it('starts from the usual six categories and saves the edited list under the site’s causes id', () => {
+    const actions = fakeActions();
+    render(<SetupScreen state={readyState([], {}, { person: engineer })} actions={actions} />);
+    expect((screen.getByLabelText('Category 1') as HTMLInputElement).value).toBe('People');
+    fireEvent.click(screen.getByRole('button', { name: 'Remove category 6' }));
+    fireEvent.input(screen.getByLabelText('Category 1'), { target: { value: 'Operator' } });
+    fireEvent.click(screen.getByTestId('save-site-causes'));
+    expect(actions.saveSetup).toHaveBeenLastCalledWith(
+      [{ kind: 'causes', id: 'site-1-causes', body: { siteId: 'site-1', categories: ['Operator', 'Machine', 'Method', 'Material', 'Measurement'] } }],
+      "The site's cause categories",
+    );
+  });
+});
+
+describe('after saving a change that needs a new phase', () => {
+  it('goes on to the new-phase screen', async () => {
+    const ch = makeCharacteristic();
+    const view = buildCharacteristicView(ch, [], individuals(BASELINE), [], [], T0);
+    const actions = fakeActions();
+    render(<CharacteristicEditor state={readyState([ch], { [ch.id]: view }, { person: engineer })} actions={actions} characteristicId={ch.id} />);
+    fireEvent.change(screen.getByTestId('chart-type'), { target: { value: 'ewma' } });
+    fireEvent.click(screen.getByTestId('save-characteristic'));
+    await vi.waitFor(() => expect(actions.open).toHaveBeenCalledWith({ name: 'new-phase', characteristicId: ch.id }));
   });
 });

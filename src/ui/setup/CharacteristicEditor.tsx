@@ -61,7 +61,8 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
     setBusy(false);
     if (ok) {
       drafts.delete(key);
-      actions.open({ name: 'characteristic', characteristicId: ch.id });
+      // A change the old limits do not fit: go straight on to record the new phase.
+      actions.open(phaseNotice ? { name: 'new-phase', characteristicId: ch.id } : { name: 'characteristic', characteristicId: ch.id });
     }
   };
 

@@ -4,6 +4,12 @@ import { formatShortDateTime } from '../format-time';
 import { CHART_SHORT_NAME } from './chart-names';
 import './setup.css';
 
+/** "+57%", "−12%": a ratio as a signed change. */
+function percentChange(ratio: number): string {
+  const pct = Math.round((ratio - 1) * 100);
+  return `${pct >= 0 ? '+' : '−'}${Math.abs(pct)}%`;
+}
+
 /** Each phase of a characteristic with its limits, how they were set, and how they moved from the phase before. Printable. */
 export function LimitsHistoryScreen({ state, actions, characteristicId }: { state: AppState; actions: AppActions; characteristicId: string }) {
   const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
@@ -22,7 +28,7 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
         <h1>Limits by phase: {ch.name}</h1>
         <button type="button" class="btn small no-print" onClick={() => window.print()}>Print</button>
       </div>
-      <p class="hint">{ch.unit} · {CHART_SHORT_NAME[ch.chartType]} · {view.analysis.points.length} points · printed {formatShortDateTime(new Date(state.now).toISOString())}</p>
+      <p class="hint">{ch.unit} · {CHART_SHORT_NAME[ch.chartType]} · {view.analysis.points.length} points · as of {formatShortDateTime(new Date(state.now).toISOString())}</p>
       <div class="table-scroll card" tabIndex={0} role="region" aria-label={`Limits by phase of ${ch.name} (scrolls sideways)`}>
         <table class="history-table" data-testid="limits-history">
           <caption class="sr-only">Limits of each phase of {ch.name}</caption>
@@ -36,16 +42,16 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
           <tbody>
             {rows.map((r) => (
               <tr key={r.number} data-testid={`history-row-${r.number}`}>
-                <th scope="row">{r.number}</th>
-                <td>{r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</td>
-                <td>{r.reason}</td>
-                <td>{how(r)}</td>
-                <td>{f(r.centre)}<span class="delta">{delta(r.change?.centre)}</span></td>
-                <td>{f(r.ucl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.ucl)}</span></td>
-                <td>{f(r.lcl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.lcl)}</span></td>
-                <td>{f(r.sigma)} <span class="delta">{SIGMA_METHOD_TEXT[r.sigmaMethod]}{r.change?.sigmaRatio ? ` · ${Math.round((r.change.sigmaRatio - 1) * 100)}% vs phase before` : ''}</span></td>
-                <td>{r.points}</td>
-                <td>{r.signalPoints}</td>
+                <th scope="row">Phase {r.number}</th>
+                <td data-label="Starts">{r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</td>
+                <td data-label="Reason">{r.reason}</td>
+                <td data-label="Limits set by">{how(r)}</td>
+                <td data-label="Centre">{f(r.centre)}<span class="delta">{delta(r.change?.centre)}</span></td>
+                <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.ucl)}</span></td>
+                <td data-label="LCL">{f(r.lcl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.lcl)}</span></td>
+                <td data-label="Sigma">{f(r.sigma)} <span class="delta">{SIGMA_METHOD_TEXT[r.sigmaMethod]}{r.change?.sigmaRatio ? ` · ${percentChange(r.change.sigmaRatio)} vs phase before` : ''}</span></td>
+                <td data-label="Points">{r.points}</td>
+                <td data-label="Points with signals">{r.signalPoints}</td>
               </tr>
             ))}
           </tbody>

@@ -5,6 +5,7 @@ import type { Line, Station } from '../../schema';
 import { CHART_SHORT_NAME } from './chart-names';
 import { NameForm } from './NameForm';
 import { OfflineNotice } from './OfflineNotice';
+import { SiteCausesEditor } from './SiteCausesEditor';
 import './setup.css';
 
 /** Lines, their stations and the characteristics measured there: add and rename, open a characteristic to change it. */
@@ -78,6 +79,7 @@ export function SetupScreen({ state, actions }: { state: AppState; actions: AppA
         <NameForm id="new-line" label="Name of the new line" submitLabel="Add line"
           onSave={(name) => saveLine({ id: entityIdFor(name, new Set(setup.lines.map((l) => l.id)), 'ln'), siteId, name }, `The new line ${name}`)} />
       </section>
+      <SiteCausesEditor state={state} actions={actions} />
     </main>
   );
 }
