@@ -201,3 +201,20 @@ describe('after saving a change that needs a new phase', () => {
     await vi.waitFor(() => expect(actions.open).toHaveBeenCalledWith({ name: 'new-phase', characteristicId: ch.id }));
   });
 });
+
+describe('a refused or failed save', () => {
+  it('puts the focus on the first field with a problem, and shows why a send failed beside the buttons', async () => {
+    const actions = fakeActions();
+    actions.saveSetup.mockResolvedValue(false);
+    const state = readyState([], {}, { person: engineer, error: 'The new characteristic “X” was NOT saved: set-up changes need a connection to the site server.' });
+    render(<CharacteristicEditor state={state} actions={actions} stationId="st-1" />);
+    fireEvent.click(screen.getByTestId('save-characteristic'));
+    await vi.waitFor(() => expect(document.activeElement).toBe(screen.getByLabelText('Name', { exact: true })));
+    type('Name', 'X');
+    type('Unit (or what is counted)', 'mm');
+    type('Step 1', 'Stop');
+    fireEvent.click(screen.getByTestId('save-characteristic'));
+    await vi.waitFor(() => expect(screen.getByTestId('send-failed').textContent).toMatch(/need a connection/));
+    expect((screen.getByLabelText('Name', { exact: true }) as HTMLInputElement).value).toBe('X');
+  });
+});

@@ -8,6 +8,7 @@ import { DEFAULT_CAUSE_CATEGORIES, type SetupRecord } from '../../schema';
 import { SafetyCaution } from '../SafetyCaution';
 import { ChartDesignFields } from './ChartDesignFields';
 import { ListEditor } from './ListEditor';
+import { focusFirstProblem } from './focus-first-problem';
 import { OfflineNotice } from './OfflineNotice';
 import { RulePicker } from './RulePicker';
 import { TextField } from './TextField';
@@ -27,6 +28,7 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
   const [touched, setTouched] = useState<ReadonlySet<string>>(new Set());
   const [tried, setTried] = useState(false);
   const [busy, setBusy] = useState(false);
+  const [sendFailed, setSendFailed] = useState(false);
   const setForm = (next: CharacteristicForm) => {
     drafts.set(key, next);
     setFormState(next);
@@ -53,12 +55,13 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
   const save = async (e: Event) => {
     e.preventDefault();
     setTried(true);
-    if (!result.ok) return;
+    if (!result.ok) return focusFirstProblem();
     const ch = result.value;
     const entries: SetupRecord[] = [{ kind: 'characteristic', id: ch.id, body: ch }];
     setBusy(true);
     const ok = await actions.saveSetup(entries, existing ? `The change to “${ch.name}”` : `The new characteristic “${ch.name}”`);
     setBusy(false);
+    setSendFailed(!ok);
     if (ok) {
       drafts.delete(key);
       // A change the old limits do not fit: go straight on to record the new phase.
@@ -140,6 +143,7 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
           {form.safetyCritical ? <SafetyCaution /> : null}
         </section>
         {tried && !result.ok ? <p class="error-text" role="alert">Some fields need attention (marked above); nothing was sent.</p> : null}
+        {sendFailed && state.error ? <p class="error-text" role="status" data-testid="send-failed">{state.error}</p> : null}
         <div class="row">
           <button type="submit" class="btn primary" disabled={busy} data-testid="save-characteristic">{busy ? 'Saving…' : existing ? 'Save the change' : 'Create characteristic'}</button>
           <button type="button" class="btn" onClick={back}>Cancel</button>

@@ -3,6 +3,7 @@ import type { AppActions, AppState } from '../../app/app-state';
 import { newPhaseForm, phaseEntriesFromForm, startChoices, type PhaseField, type PhaseForm } from '../../app/phase-form';
 import { isVariableChart } from '../../schema';
 import { formatShortDateTime } from '../format-time';
+import { focusFirstProblem } from './focus-first-problem';
 import { OfflineNotice } from './OfflineNotice';
 import { TextField } from './TextField';
 import './setup.css';
@@ -17,6 +18,7 @@ export function PhaseScreen({ state, actions, characteristicId }: { state: AppSt
   const [touched, setTouched] = useState<ReadonlySet<string>>(new Set());
   const [tried, setTried] = useState(false);
   const [busy, setBusy] = useState(false);
+  const [sendFailed, setSendFailed] = useState(false);
   if (state.person?.role !== 'engineer' && state.person?.role !== 'admin') return <main class="main"><p>Only a quality engineer or an admin can start a phase.</p></main>;
   if (!ch || !form) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
   if (!view) return <main class="main"><p class="hint">Loading chart…</p></main>;
@@ -43,10 +45,11 @@ export function PhaseScreen({ state, actions, characteristicId }: { state: AppSt
     setTried(true);
     // Re-read "now" at the moment of saving: the phase starts with the next sample.
     const fresh = phaseEntriesFromForm(form, { ...ctx, now: Date.now() });
-    if (!fresh.ok) return;
+    if (!fresh.ok) return focusFirstProblem();
     setBusy(true);
     const ok = await actions.saveSetup(fresh.value.map((p) => ({ kind: 'phase', id: p.id, body: p })), `The new phase of ${ch.name}`);
     setBusy(false);
+    setSendFailed(!ok);
     if (ok) {
       drafts.delete(characteristicId);
       back();
@@ -111,6 +114,7 @@ export function PhaseScreen({ state, actions, characteristicId }: { state: AppSt
           )}
         </section>
         {tried && !result.ok ? <p class="error-text" role="alert">Some fields need attention (marked above); nothing was sent.</p> : null}
+        {sendFailed && state.error ? <p class="error-text" role="status" data-testid="send-failed">{state.error}</p> : null}
         <div class="row">
           <button type="submit" class="btn primary" disabled={busy} data-testid="save-phase">{busy ? 'Saving…' : 'Start the new phase'}</button>
           <button type="button" class="btn" onClick={back}>Cancel</button>
