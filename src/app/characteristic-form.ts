@@ -193,3 +193,21 @@ export function entityIdFor(name: string, taken: ReadonlySet<string>, prefix = '
   for (let i = 2; taken.has(id); i++) id = `${base}-${i}`;
   return id;
 }
+
+/**
+ * A chart-type change the recorded history cannot follow: one characteristic has one kind of data
+ * (measurements or counts), and an individuals chart cannot plot subgroups of several values. Such a
+ * change would leave the whole chart undrawable, so the editor refuses it and says what to do instead.
+ */
+export function historyConflict(before: Characteristic | undefined, chartType: ChartType, samples: readonly { readonly values?: readonly number[] }[]): string | undefined {
+  if (!before || samples.length === 0 || before.chartType === chartType) return undefined;
+  if (isVariableChart(before.chartType) !== isVariableChart(chartType)) {
+    return isVariableChart(before.chartType)
+      ? 'The samples on this chart are measurements; a count chart cannot plot them. Set up a new characteristic for the counts and keep this one for its history.'
+      : 'The samples on this chart are counts; a measurement chart cannot plot them. Set up a new characteristic for the measurements and keep this one for its history.';
+  }
+  if (chartType === 'xmr' && samples.some((s) => (s.values?.length ?? 0) > 1)) {
+    return 'The samples on this chart hold several values each; an individuals chart takes one value per sample. Keep an X̄ chart (or EWMA / CUSUM), or set up a new characteristic.';
+  }
+  return undefined;
+}

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  changeNeedsNewPhase, characteristicFromForm, entityIdFor, formFromCharacteristic, newCharacteristicForm, withChartType,
+  changeNeedsNewPhase, characteristicFromForm, entityIdFor, historyConflict, formFromCharacteristic, newCharacteristicForm, withChartType,
 } from '../../src/app/characteristic-form';
 import { Characteristic } from '../../src/schema';
 import { makeCharacteristic } from './helpers';
@@ -98,5 +98,23 @@ describe('entityIdFor()', () => {
     expect(entityIdFor('Seat bore Ø (final)', new Set())).toBe('seat-bore-final');
     expect(entityIdFor('Assembly', new Set(['st-assembly']), 'st')).toBe('st-assembly-2');
     expect(entityIdFor('Ø', new Set())).toBe('characteristic');
+  });
+});
+
+describe('historyConflict()', () => {
+  const xbar = makeCharacteristic({ chartType: 'xbar-r', subgroupSize: 5 });
+  const fives = [{ values: [1, 2, 3, 4, 5] }];
+  it('refuses a switch between measurements and counts once there is history', () => {
+    expect(historyConflict(xbar, 'p', fives)).toMatch(/count chart cannot plot/);
+    expect(historyConflict(makeCharacteristic({ chartType: 'c', subgroupSize: 1 }), 'xmr', [{}])).toMatch(/measurement chart cannot plot/);
+  });
+  it('refuses an individuals chart over subgroups of several values', () => {
+    expect(historyConflict(xbar, 'xmr', fives)).toMatch(/one value per sample/);
+  });
+  it('allows changes the history can follow, and anything on an empty chart', () => {
+    expect(historyConflict(xbar, 'xbar-s', fives)).toBeUndefined();
+    expect(historyConflict(xbar, 'ewma', fives)).toBeUndefined();
+    expect(historyConflict(xbar, 'p', [])).toBeUndefined();
+    expect(historyConflict(undefined, 'p', fives)).toBeUndefined();
   });
 });

@@ -218,3 +218,18 @@ describe('a refused or failed save', () => {
     expect((screen.getByLabelText('Name', { exact: true }) as HTMLInputElement).value).toBe('X');
   });
 });
+
+describe('a chart-type change the history cannot follow', () => {
+  it('is refused with the reason, and nothing is sent', async () => {
+    const ch = makeCharacteristic();
+    const view = buildCharacteristicView(ch, [], individuals(BASELINE), [], [], T0);
+    const actions = fakeActions();
+    render(<CharacteristicEditor state={readyState([ch], { [ch.id]: view }, { person: engineer })} actions={actions} characteristicId={ch.id} />);
+    fireEvent.change(screen.getByTestId('chart-type'), { target: { value: 'c' } });
+    expect(screen.getByTestId('history-conflict').textContent).toMatch(/measurements; a count chart cannot plot them/);
+    expect(screen.queryByTestId('phase-notice')).toBeNull();
+    fireEvent.click(screen.getByTestId('save-characteristic'));
+    await new Promise((r) => setTimeout(r, 10));
+    expect(actions.saveSetup).not.toHaveBeenCalled();
+  });
+});

@@ -1,7 +1,7 @@
 import { useState } from 'preact/hooks';
 import type { AppActions, AppState } from '../../app/app-state';
 import {
-  changeNeedsNewPhase, characteristicFromForm, entityIdFor, formFromCharacteristic, newCharacteristicForm, withChartType,
+  changeNeedsNewPhase, characteristicFromForm, historyConflict, entityIdFor, formFromCharacteristic, newCharacteristicForm, withChartType,
   type CharacteristicField, type CharacteristicForm,
 } from '../../app/characteristic-form';
 import { DEFAULT_CAUSE_CATEGORIES, type SetupRecord } from '../../schema';
@@ -47,7 +47,8 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
   const all = result.ok ? {} : result.errors;
   const errors = Object.fromEntries(Object.entries(all).filter(([f]) => tried || touched.has(f))) as typeof all;
   const points = existing ? state.views[existing.id]?.analysis.points.length ?? 0 : 0;
-  const phaseNotice = changeNeedsNewPhase(existing, form, points);
+  const conflict = historyConflict(existing, form.chartType, existing ? state.views[existing.id]?.series.samples ?? [] : []);
+  const phaseNotice = conflict ? undefined : changeNeedsNewPhase(existing, form, points);
   const siteCauses = setup.causeLists.find((c) => c.siteId === state.device?.siteId)?.categories ?? [...DEFAULT_CAUSE_CATEGORIES];
   const ownCauses = form.causeCategories.length > 0;
   const back = () => actions.open(existing ? { name: 'characteristic', characteristicId: existing.id } : { name: 'setup' });
@@ -55,7 +56,7 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
   const save = async (e: Event) => {
     e.preventDefault();
     setTried(true);
-    if (!result.ok) return focusFirstProblem();
+    if (!result.ok || conflict) return focusFirstProblem();
     const ch = result.value;
     const entries: SetupRecord[] = [{ kind: 'characteristic', id: ch.id, body: ch }];
     setBusy(true);
@@ -101,6 +102,7 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
         <section class="card stack" aria-labelledby="sec-chart">
           <h2 id="sec-chart">Chart and sampling</h2>
           <ChartDesignFields form={form} errors={errors} onInput={input} onChartType={(t) => { setForm(withChartType(form, t)); touch('subgroupSize'); }} />
+          {conflict ? <p class="caution" role="alert" data-testid="history-conflict">{conflict}</p> : null}
         </section>
         <section class="card stack" aria-labelledby="sec-spec">
           <h2 id="sec-spec">Specification</h2>
@@ -142,7 +144,7 @@ export function CharacteristicEditor({ state, actions, characteristicId, station
           </label>
           {form.safetyCritical ? <SafetyCaution /> : null}
         </section>
-        {tried && !result.ok ? <p class="error-text" role="alert">Some fields need attention (marked above); nothing was sent.</p> : null}
+        {tried && (!result.ok || conflict) ? <p class="error-text" role="alert">Some fields need attention (marked above); nothing was sent.</p> : null}
         {sendFailed && state.error ? <p class="error-text" role="status" data-testid="send-failed">{state.error}</p> : null}
         <div class="row">
           <button type="submit" class="btn primary" disabled={busy} data-testid="save-characteristic">{busy ? 'Saving…' : existing ? 'Save the change' : 'Create characteristic'}</button>
