@@ -121,6 +121,13 @@ describe.skipIf(!run)('set-up by a quality engineer', () => {
     await table.waitFor();
     expect(await eng.getByTestId('history-row-2').innerText()).toMatch(/CN-118[\s\S]*Baseline of 8 subgroups — provisional/);
     problems.push(...(await check(eng, 'limits-history-light')));
+    // Printable: the print stylesheet drops the top bar and the buttons, and keeps the table.
+    await eng.emulateMedia({ media: 'print' });
+    expect(await eng.locator('.topbar').isVisible()).toBe(false);
+    expect(await eng.getByRole('button', { name: 'Print' }).isVisible()).toBe(false);
+    expect(await table.isVisible()).toBe(true);
+    await eng.screenshot({ path: join(SHOTS, 'limits-history-print.png'), fullPage: true });
+    await eng.emulateMedia({ media: 'screen' });
 
     // The same screens in the dark theme.
     await eng.getByTestId('theme-toggle').click();
