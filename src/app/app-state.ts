@@ -68,7 +68,8 @@ export type Screen =
   | { readonly name: 'setup' }
   /** The characteristic editor: an existing one, or a new one at a station. */
   | { readonly name: 'edit-characteristic'; readonly characteristicId?: string; readonly stationId?: string }
-  | { readonly name: 'new-phase'; readonly characteristicId: string }
+  /** A new phase; `fromSampleId` preselects the point it starts at (chosen on the chart). */
+  | { readonly name: 'new-phase'; readonly characteristicId: string; readonly fromSampleId?: string }
   | { readonly name: 'limits-history'; readonly characteristicId: string };
 
 export interface AppState {

@@ -36,8 +36,10 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
   else if (state.screen.name === 'edit-characteristic') {
     const { characteristicId, stationId } = state.screen;
     body = <CharacteristicEditor key={characteristicId ?? `new:${stationId ?? ''}`} state={state} actions={actions} characteristicId={characteristicId} stationId={stationId} />;
-  } else if (state.screen.name === 'new-phase') body = <PhaseScreen key={state.screen.characteristicId} state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
-  else if (state.screen.name === 'limits-history') body = <LimitsHistoryScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
+  } else if (state.screen.name === 'new-phase') {
+    const { characteristicId, fromSampleId } = state.screen;
+    body = <PhaseScreen key={`${characteristicId}:${fromSampleId ?? ''}`} state={state} actions={actions} characteristicId={characteristicId} fromSampleId={fromSampleId} />;
+  } else if (state.screen.name === 'limits-history') body = <LimitsHistoryScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
   else body = <StationBoard state={state} actions={actions} />;
   return (
     <div class="shell">

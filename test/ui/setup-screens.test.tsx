@@ -9,6 +9,7 @@ import { LimitsHistoryScreen } from '../../src/ui/setup/LimitsHistoryScreen';
 import { PhaseScreen } from '../../src/ui/setup/PhaseScreen';
 import { SetupScreen } from '../../src/ui/setup/SetupScreen';
 import { TopBar } from '../../src/ui/TopBar';
+import { PointDetails } from '../../src/ui/chart/PointDetails';
 import { BASELINE, individuals, makeCharacteristic, makePhase, T0, iso } from '../app/helpers';
 import { fakeActions, readyState } from './helpers';
 
@@ -231,5 +232,31 @@ describe('a chart-type change the history cannot follow', () => {
     fireEvent.click(screen.getByTestId('save-characteristic'));
     await new Promise((r) => setTimeout(r, 10));
     expect(actions.saveSetup).not.toHaveBeenCalled();
+  });
+});
+
+describe('a new phase from a point on the chart', () => {
+  it('preselects the point the engineer chose', () => {
+    const ch = makeCharacteristic();
+    const samples = individuals([...BASELINE, 10.2, 10.3]);
+    const view = buildCharacteristicView(ch, [], samples, [], [], T0);
+    render(<PhaseScreen state={readyState([ch], { [ch.id]: view }, { person: engineer })} actions={fakeActions()} characteristicId={ch.id} fromSampleId={samples[20]!.id} />);
+    expect((screen.getByTestId('start-at-point') as HTMLInputElement).checked).toBe(true);
+    expect((screen.getByTestId('start-point') as HTMLSelectElement).value).toBe(samples[20]!.id);
+  });
+});
+
+describe('PointDetails offers “New phase from here”', () => {
+  it('to engineers, at points after the current phase began', () => {
+    const ch = makeCharacteristic();
+    const samples = individuals([...BASELINE, 10.2]);
+    const view = buildCharacteristicView(ch, [], samples, [], [], T0);
+    const actions = fakeActions();
+    const { unmount } = render(<PointDetails view={view} index={20} state={readyState([ch], { [ch.id]: view }, { person: engineer })} actions={actions} onClose={() => {}} />);
+    fireEvent.click(screen.getByTestId('phase-from-point'));
+    expect(actions.open).toHaveBeenCalledWith({ name: 'new-phase', characteristicId: ch.id, fromSampleId: samples[20]!.id });
+    unmount();
+    render(<PointDetails view={view} index={20} state={readyState([ch], { [ch.id]: view })} actions={actions} onClose={() => {}} />);
+    expect(screen.queryByTestId('phase-from-point')).toBeNull(); // not for an operator
   });
 });

@@ -11,10 +11,16 @@ import './setup.css';
 const drafts = new Map<string, PhaseForm>();
 
 /** Start a new phase after a documented process change: why, from when, and how its limits are set. */
-export function PhaseScreen({ state, actions, characteristicId }: { state: AppState; actions: AppActions; characteristicId: string }) {
+export function PhaseScreen({ state, actions, characteristicId, fromSampleId }: {
+  state: AppState; actions: AppActions; characteristicId: string; fromSampleId?: string | undefined;
+}) {
   const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
   const view = state.views[characteristicId];
-  const [form, setFormState] = useState<PhaseForm | null>(() => drafts.get(characteristicId) ?? (ch ? newPhaseForm(ch) : null));
+  const [form, setFormState] = useState<PhaseForm | null>(() => {
+    const start = ch ? drafts.get(characteristicId) ?? newPhaseForm(ch) : null;
+    // Opened from a point on the chart: that point is where the phase starts.
+    return start && fromSampleId ? { ...start, startMode: 'point', startSampleId: fromSampleId } : start;
+  });
   const [touched, setTouched] = useState<ReadonlySet<string>>(new Set());
   const [tried, setTried] = useState(false);
   const [busy, setBusy] = useState(false);
