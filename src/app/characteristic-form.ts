@@ -31,7 +31,7 @@ export interface CharacteristicForm {
   readonly cusumH: string;
 }
 
-export type CharacteristicField = Exclude<keyof CharacteristicForm, 'id' | 'stationId'> | 'stationId';
+export type CharacteristicField = Exclude<keyof CharacteristicForm, 'id'>;
 
 /** Rule sets an engineer picks with one press; any subset can be chosen after. */
 export const RULE_PRESETS: readonly { readonly name: string; readonly rules: readonly RuleId[] }[] = [
@@ -64,7 +64,9 @@ export function newCharacteristicForm(id: string, stationId: string): Characteri
     safetyCritical: false,
     // 25 subgroups: the usual baseline for trial limits (common practice: 20–25).
     baselineSize: '25',
+    // EWMA λ 0.2, L 2.962: in-control ARL about 500 (Lucas & Saccucci 1990, Technometrics 32(1)).
     ewmaLambda: String(DEFAULT_EWMA.lambda), ewmaL: String(DEFAULT_EWMA.L),
+    // Tabular CUSUM k 0.5, h 5: the usual design for a 1-sigma shift (Montgomery, Introduction to SQC, CUSUM chapter).
     cusumK: String(DEFAULT_CUSUM.k), cusumH: String(DEFAULT_CUSUM.h),
   };
 }
