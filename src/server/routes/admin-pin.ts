@@ -1,14 +1,15 @@
 import type { FastifyInstance } from 'fastify';
-import { SignInRequest, z } from '../../schema/index';
+import { SetPinRequest } from '../../schema/index';
 import { authenticateSession, requireRole } from '../auth';
 import { HttpError } from '../http-error';
 import { parseInput } from '../parse-input';
 import { hashPin, newOfflineVerifier } from '../pin-hash';
 import type { ServerContext } from '../server-context';
 
-const SetPinRequest = z.object({ personId: z.string().check(z.minLength(1), z.maxLength(64)), pin: SignInRequest.shape.pin });
-
-/** POST /api/v1/admin/pin (admin session) {personId, pin} → 204: sets a person's PIN and a new offline verifier. */
+/**
+ * POST /api/v1/admin/pin (admin session) {personId, pin} → 204: sets a person's PIN and a new offline verifier.
+ * The PIN follows the rule for new PINs (schema/admin.ts: 4–12 digits, not guessable).
+ */
 export function registerAdminPinRoute(app: FastifyInstance, ctx: ServerContext): void {
   app.post('/api/v1/admin/pin', async (request, reply) => {
     const { person: admin, siteId } = await authenticateSession(ctx, request);
