@@ -11,6 +11,8 @@ export interface AdminView {
   readonly devices?: readonly AdminDevice[];
   /** The last enrolment code issued here, shown until it expires or a new one is made. */
   readonly code?: EnrolmentCodeIssued;
+  /** When the code was made (tablet clock), so its remaining time is right at once. */
+  readonly codeIssuedAt?: number;
   /** Why the lists could not be loaded or a change was not made, in plain words. */
   readonly problem?: string;
   /** What the last change did. */
@@ -85,8 +87,8 @@ export function createAdminController(deps: AdminControllerDeps): AdminActions {
     patch({ loading: true });
     const loaded = await withSession(async (api, s) => Promise.all([api.listPeople(s), api.listDevices(s)]));
     if (!loaded) return;
-    const code = view().code;
-    const stillValid = code && Date.parse(code.expiresAt) > deps.now() ? { code } : {};
+    const { code, codeIssuedAt } = view();
+    const stillValid = code && Date.parse(code.expiresAt) > deps.now() ? { code, codeIssuedAt } : {};
     deps.set({ loading: false, people: loaded[0], devices: loaded[1], loadedAt: deps.now(), ...stillValid, ...(notice ? { notice } : {}) });
   }
 
@@ -169,7 +171,7 @@ export function createAdminController(deps: AdminControllerDeps): AdminActions {
       patch({ problem: undefined, notice: undefined });
       const code = await withSession((api, s) => api.issueEnrolmentCode(s));
       if (!code) return false;
-      patch({ code });
+      patch({ code, codeIssuedAt: deps.now() });
       return true;
     },
   };

@@ -1,5 +1,6 @@
 import { useEffect, useMemo } from 'preact/hooks';
 import { decimalSeparatorFor } from '../app/number-entry';
+import { AdminScreen } from './admin/AdminScreen';
 import { CharacteristicScreen } from './CharacteristicScreen';
 import { EnrolScreen } from './EnrolScreen';
 import { SignalPromptSheet } from './SignalPromptSheet';
@@ -9,6 +10,7 @@ import { SiteOverview } from './SiteOverview';
 import { SyncSheet } from './SyncSheet';
 import { StationBoard } from './StationBoard';
 import { TopBar } from './TopBar';
+import { WithdrawnNotice } from './WithdrawnNotice';
 import { useAppState, type AppHandle } from './use-app';
 
 export function App({ app, locale }: { app: AppHandle; locale: string }) {
@@ -28,10 +30,12 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
   else if (state.screen.name === 'characteristic') body = <CharacteristicScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
   else if (state.screen.name === 'overview') body = <SiteOverview state={state} actions={actions} />;
   else if (state.screen.name === 'handover') body = <HandoverScreen state={state} actions={actions} />;
+  else if (state.screen.name === 'admin') body = <AdminScreen state={state} actions={actions} tab={state.screen.tab} />;
   else body = <StationBoard state={state} actions={actions} />;
   return (
     <div class="shell">
       <TopBar state={state} actions={actions} />
+      <WithdrawnNotice state={state} />
       {state.stage === 'ready' && state.error ? <p class="caution" role="alert" style="margin:12px 20px 0">{state.error}</p> : null}
       {body}
       {state.stage === 'ready' && state.prompt && promptChar ? (

@@ -1,0 +1,44 @@
+import { useState } from 'preact/hooks';
+import type { AdminView } from '../../app/admin-controller';
+import type { AppActions, AppState } from '../../app/app-state';
+import { formatClock } from '../format-time';
+
+/** A one-time connection code for a new tablet, with when it stops working and what to do with it. */
+export function EnrolmentCodeCard({ state, view, actions }: { state: AppState; view: AdminView; actions: AppActions }) {
+  const [busy, setBusy] = useState(false);
+  const code = view.code;
+  const minutesLeft = code ? Math.round((Date.parse(code.expiresAt) - Math.max(state.now, view.codeIssuedAt ?? 0)) / 60_000) : 0;
+  const live = code && minutesLeft > 0;
+  const issue = async () => {
+    setBusy(true);
+    await actions.adminIssueCode();
+    setBusy(false);
+  };
+  return (
+    <section class="card stack" aria-labelledby="code-title" data-testid="code-card">
+      <h2 id="code-title">Connect a new tablet</h2>
+      {live ? (
+        <>
+          <p class="admin-code" data-testid="enrolment-code" aria-label={`Connection code ${code.code.split('').join(' ')}`}>{code.code}</p>
+          <p data-testid="code-expiry">
+            Works once, until <strong>{formatClock(code.expiresAt)}</strong> (about {minutesLeft} min from now). After that, make a new one.
+          </p>
+          <ol class="admin-steps">
+            <li>On the new tablet, open <strong>{location.origin}</strong> in the browser (add it to the home screen to install it).</li>
+            <li>Type this code under “Connection code”, give the tablet a name people will recognise (e.g. the machine it stands at), and press “Connect tablet”.</li>
+            <li>People then sign in on it with their own login and PIN.</li>
+          </ol>
+        </>
+      ) : (
+        <p class="hint">
+          {code ? 'The last code has expired. ' : ''}A connection code lets one new tablet join this site. It works once and expires after 15 minutes.
+        </p>
+      )}
+      <div class="row">
+        <button type="button" class={`btn small${live ? '' : ' primary'}`} disabled={busy} onClick={() => void issue()} data-testid="issue-code">
+          {busy ? 'Making a code…' : live ? 'Make another code' : 'Make a connection code'}
+        </button>
+      </div>
+    </section>
+  );
+}
