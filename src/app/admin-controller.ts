@@ -150,7 +150,7 @@ export function createAdminController(deps: AdminControllerDeps): AdminActions {
       });
       if (!done) return { ok: false, errors: { form: view().problem ?? 'The PIN was not changed.' } };
       await reload(
-        `${nameOf(personId)}'s PIN is changed. A tablet where they signed in before still takes the old PIN offline until they sign in there online once.`,
+        `${nameOf(personId)}'s PIN is changed. Tablets stop taking the old PIN at their next sync; tell ${nameOf(personId)} the new one.`,
       );
       return { ok: true };
     },

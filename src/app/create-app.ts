@@ -1,4 +1,4 @@
-import type { Acknowledgement, DeviceRecord, Person, Response, Sample } from '../schema';
+import { pinRefOf, type Acknowledgement, type DeviceRecord, type Person, type Response, type Sample } from '../schema';
 import {
   getAcksForCharacteristic,
   getSamplesForCharacteristic,
@@ -392,6 +392,11 @@ export function createPlumblineApp(deps: AppDeps) {
             return false;
           }
           const known = await getSignedInPerson(db, login);
+          if (known && inSetup?.pinRef && inSetup.id === known.personId && (await pinRefOf(known.offlineVerifier.salt)) !== inSetup.pinRef) {
+            // The site admin has set a new PIN since this person last signed in here online.
+            set({ error: `${inSetup.name}'s PIN has been changed by the site admin. Sign in once while the tablet is online, with the new PIN.` });
+            return false;
+          }
           if (known && (await verifyOffline(pin, known.offlineVerifier))) {
             await becomeReady(currentPerson(known));
             return true;
@@ -412,6 +417,8 @@ export function createPlumblineApp(deps: AppDeps) {
 
     signOut() {
       deps.session.removeItem('plumbline.person');
+      // The server session ends with the sign-out here: the next person at the tablet cannot act on it.
+      if (state.person) deps.session.removeItem(sessionKey(state.person.id));
       set({ stage: 'sign-in', person: undefined, prompt: undefined, error: undefined, admin: undefined });
     },
     addPerson() {

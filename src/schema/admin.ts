@@ -77,6 +77,15 @@ export const EnrolmentCodeRequest = z.object({ ttlMinutes: z.optional(z.int().ch
 export const EnrolmentCodeIssued = z.object({ code: NonEmptyText(32), expiresAt: Instant });
 export type EnrolmentCodeIssued = z.infer<typeof EnrolmentCodeIssued>;
 
+/**
+ * The pinRef of a PIN: the first 16 hex digits of SHA-256 over its offline verifier's salt (a random
+ * value made anew at every PIN change). It tells which PIN a cached verifier belongs to and nothing about the PIN.
+ */
+export async function pinRefOf(verifierSalt: string): Promise<string> {
+  const digest = await globalThis.crypto.subtle.digest('SHA-256', new TextEncoder().encode(verifierSalt));
+  return Array.from(new Uint8Array(digest).slice(0, 8), (b) => b.toString(16).padStart(2, '0')).join('');
+}
+
 /** Counts the active admins once `change` is applied to the person `personId` (the others as they are). */
 export function activeAdminsAfter(people: readonly Person[], personId: string, change: PersonChangeRequest): number {
   return people.filter((p) => {

@@ -117,6 +117,34 @@ describe('people', () => {
     expect(await line.app.actions.signIn('odile', '5281')).toBe(true);
   });
 
+  it('a PIN reset reaches tablets at their next sync: the old PIN no longer works offline there', async () => {
+    const line = await signedIn('odile', '1234');
+    await line.settle();
+    line.app.actions.signOut();
+    const t = await adminTablet();
+    expect(await t.app.actions.adminResetPin('p-op', '5281', '5281')).toEqual({ ok: true });
+    await line.app.actions.syncNow();
+    await line.settle();
+    line.net.online = false;
+    expect(await line.app.actions.signIn('odile', '1234')).toBe(false);
+    expect(line.app.getState().error).toBe("Odile Test's PIN has been changed by the site admin. Sign in once while the tablet is online, with the new PIN.");
+    line.net.online = true;
+    expect(await line.app.actions.signIn('odile', '5281')).toBe(true);
+    line.app.actions.signOut();
+    line.net.online = false;
+    expect(await line.app.actions.signIn('odile', '5281')).toBe(true); // the new verifier is cached now
+  });
+
+  it('before the sync, a tablet still takes the old PIN offline (it cannot know yet)', async () => {
+    const line = await signedIn('odile', '1234');
+    await line.settle();
+    line.app.actions.signOut();
+    const t = await adminTablet();
+    expect(await t.app.actions.adminResetPin('p-op', '5281', '5281')).toEqual({ ok: true });
+    line.net.online = false;
+    expect(await line.app.actions.signIn('odile', '1234')).toBe(true);
+  });
+
   it('online only: without a network, and after an offline sign-in, the screen says so plainly and changes nothing', async () => {
     const t = await adminTablet();
     t.net.online = false;
@@ -124,16 +152,13 @@ describe('people', () => {
     expect(t.app.getState().admin?.problem).toBe(OFFLINE);
     expect(await t.app.actions.adminAddPerson(personInput)).toEqual({ ok: false, errors: { form: OFFLINE } });
     expect(await server().store.getSetup('person', 'p-nadia')).toBeUndefined();
-    // Signed in again while offline: the server has no session for this sign-in.
+    // Signed out and in again while offline: the server has no session for this sign-in.
     t.app.actions.signOut();
-    const restarted = await tablet({ db: t.db });
-    await restarted.app.start();
-    restarted.net.online = false;
-    expect(await restarted.app.actions.signIn('ada', '3456')).toBe(true);
-    restarted.net.online = true;
-    restarted.app.actions.open({ name: 'admin', tab: 'people' });
-    await restarted.settle();
-    expect(restarted.app.getState().admin?.problem).toBe(NO_SESSION);
+    expect(await t.app.actions.signIn('ada', '3456')).toBe(true);
+    t.net.online = true;
+    t.app.actions.open({ name: 'admin', tab: 'people' });
+    await t.settle();
+    expect(t.app.getState().admin?.problem).toBe(NO_SESSION);
   });
 });
 

@@ -1,5 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { api, enrolDevice, makeSample, signIn, startTestServer, testUuid, type TestServer } from './fixtures';
+import { pinRefOf } from '../../src/schema/index';
 import { describeBackends } from './backends';
 
 describeBackends('admin people routes', (backend) => {
@@ -41,7 +42,8 @@ describeBackends('admin people routes', (backend) => {
     it('adds a person who can sign in at once with the first PIN, and puts them in the set-up log for tablets', async () => {
       const res = await addPerson({ name: 'Nadia Test', login: 'nadia', role: 'operator', pin: '4826' });
       expect(res.statusCode).toBe(201);
-      expect(res.json().person).toEqual({ id: 'p-nadia', name: 'Nadia Test', login: 'nadia', role: 'operator', active: true });
+      const secrets = await server.store.getPersonSecrets('p-nadia');
+      expect(res.json().person).toEqual({ id: 'p-nadia', name: 'Nadia Test', login: 'nadia', role: 'operator', active: true, pinRef: await pinRefOf(secrets!.verifierSalt) });
       expect((await signInRes('NADIA', '4826')).statusCode).toBe(200);
       const pull = await api(server, 'GET', '/api/v1/sync/pull?after=0&limit=500', { device: tablet.deviceToken });
       const persons = (pull.json().entries as { entry: { kind: string; id: string } }[]).filter((e) => e.entry.kind === 'person').map((e) => e.entry.id);
@@ -140,8 +142,16 @@ describeBackends('admin people routes', (backend) => {
       server.advance(60_000);
       expect((await api(server, 'POST', '/api/v1/admin/pin', { session: admin, body: { personId: 'p-op', pin: '5281' } })).statusCode).toBe(204);
       expect((await signInRes('odile', '5281')).statusCode).toBe(200);
-      const listed = (await api(server, 'GET', '/api/v1/admin/people', { session: admin })).json().people as { id: string; pinSetAt: string }[];
+      const listed = (await api(server, 'GET', '/api/v1/admin/people', { session: admin })).json().people as { id: string; pinSetAt: string; pinRef?: string }[];
       expect(listed.find((p) => p.id === 'p-op')?.pinSetAt).toBe(server.now().toISOString());
+      // The person's new version names the new PIN (tablets compare it with their cached verifier).
+      const secrets = await server.store.getPersonSecrets('p-op');
+      expect(listed.find((p) => p.id === 'p-op')?.pinRef).toBe(await pinRefOf(secrets!.verifierSalt));
+      expect((await server.store.getSetup('person', 'p-op'))?.body.pinRef).toBe(await pinRefOf(secrets!.verifierSalt));
+      // A set-up change that does not mention the PIN keeps the reference.
+      const renamed = { kind: 'person', id: 'p-op', body: { id: 'p-op', name: 'Odile Renamed', login: 'odile', role: 'operator', active: true } };
+      expect((await api(server, 'POST', '/api/v1/setup', { session: admin, body: { entries: [renamed] } })).statusCode).toBe(200);
+      expect((await server.store.getSetup('person', 'p-op'))?.body).toMatchObject({ name: 'Odile Renamed', pinRef: await pinRefOf(secrets!.verifierSalt) });
     });
   });
 });

@@ -3,6 +3,7 @@ import {
   lastAdminProblem,
   NewPersonRequest,
   PersonChangeRequest,
+  pinRefOf,
   type AdminPerson,
   type PeopleListResponse,
   type Person,
@@ -40,10 +41,12 @@ export function registerAdminPeopleRoutes(app: FastifyInstance, ctx: ServerConte
     const people = await sitePeople(ctx.store, siteId);
     const taken = people.find((p) => p.login.toLowerCase() === body.login.toLowerCase());
     if (taken) throw new HttpError(409, 'login-taken', `The login "${body.login}" is already used by ${taken.name}${taken.active ? '' : ' (access withdrawn)'}; choose another.`);
-    const person: Person = { id: await freePersonId(ctx.store, body.login), name: body.name, login: body.login, role: body.role, active: true };
+    const id = await freePersonId(ctx.store, body.login);
     const now = ctx.now();
+    const secrets = await personSecrets(id, body.pin, now);
+    const person: Person = { id, name: body.name, login: body.login, role: body.role, active: true, pinRef: await pinRefOf(secrets.verifierSalt) };
     // The PIN first: a person who is in the log can then always sign in.
-    await ctx.store.setPersonSecrets(await personSecrets(person.id, body.pin, now));
+    await ctx.store.setPersonSecrets(secrets);
     await ctx.store.appendSetup([{ siteId, record: { kind: 'person', id: person.id, body: person } }], now.toISOString());
     request.log.info({ by: admin.id, personId: person.id, role: person.role }, 'person added');
     reply.code(201);

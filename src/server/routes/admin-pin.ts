@@ -1,5 +1,5 @@
 import type { FastifyInstance } from 'fastify';
-import { SetPinRequest } from '../../schema/index';
+import { pinRefOf, SetPinRequest } from '../../schema/index';
 import { authenticateSession, requireRole } from '../auth';
 import { HttpError } from '../http-error';
 import { parseInput } from '../parse-input';
@@ -17,7 +17,11 @@ export function registerAdminPinRoute(app: FastifyInstance, ctx: ServerContext):
     const body = parseInput(SetPinRequest, request.body, 'PIN change');
     const target = await ctx.store.getSetup('person', body.personId);
     if (!target || target.siteId !== siteId) throw new HttpError(400, 'bad-request', `Person "${body.personId}" is not part of this site.`);
-    await ctx.store.setPersonSecrets(await personSecrets(body.personId, body.pin, ctx.now()));
+    const secrets = await personSecrets(body.personId, body.pin, ctx.now());
+    await ctx.store.setPersonSecrets(secrets);
+    // A new version of the person names the new PIN, so tablets stop taking the old one offline.
+    const person = { ...target.body, pinRef: await pinRefOf(secrets.verifierSalt) };
+    await ctx.store.appendSetup([{ siteId, record: { kind: 'person', id: person.id, body: person } }], secrets.updatedAt);
     request.log.info({ by: admin.id, personId: body.personId }, 'PIN set');
     return reply.code(204).send();
   });

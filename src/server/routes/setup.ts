@@ -32,7 +32,7 @@ export interface SetupChangeResponse {
 export function registerSetupRoute(app: FastifyInstance, ctx: ServerContext): void {
   app.post('/api/v1/setup', async (request): Promise<SetupChangeResponse> => {
     const { person, siteId } = await authenticateSession(ctx, request);
-    const { entries } = parseInput(SetupChangeRequest, request.body, 'set-up change');
+    const entries = await keepPinRefs(ctx.store, parseInput(SetupChangeRequest, request.body, 'set-up change').entries);
 
     const inBatch = new Set<string>();
     for (const entry of entries) {
@@ -49,6 +49,16 @@ export function registerSetupRoute(app: FastifyInstance, ctx: ServerContext): vo
       results: entries.map((e, i) => ({ kind: e.kind, id: e.id, serverSeq: seqs[i] ?? 0 })),
     };
   });
+}
+
+/** A person entry sent without pinRef keeps the one in force (set-up screens do not handle PINs). */
+async function keepPinRefs(store: ServerStore, entries: readonly SetupRecord[]): Promise<SetupRecord[]> {
+  const out: SetupRecord[] = [];
+  for (const e of entries) {
+    const pinRef = e.kind === 'person' && e.body.pinRef === undefined ? (await store.getSetup('person', e.id))?.body.pinRef : undefined;
+    out.push(e.kind === 'person' && pinRef ? { ...e, body: { ...e.body, pinRef } } : e);
+  }
+  return out;
 }
 
 /** Person entries may not leave a site that had an active admin without one (schema/admin.ts). */
