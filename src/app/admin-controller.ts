@@ -39,8 +39,8 @@ export interface AdminControllerDeps {
   readonly get: () => AdminView | undefined;
   readonly set: (view: AdminView) => void;
   readonly now: () => number;
-  /** Told when a change concerned someone (e.g. the admin changed themself). */
-  readonly onPersonChanged?: (person: Person) => void;
+  /** Told when a change concerned someone; false means the admin screens are closed now (the admin changed themself). */
+  readonly onPersonChanged?: (person: Person) => boolean;
 }
 
 export const NO_SESSION =
@@ -129,7 +129,7 @@ export function createAdminController(deps: AdminControllerDeps): AdminActions {
       patch({ problem: undefined, notice: undefined });
       const person = await withSession((api, s) => api.changePerson(s, personId, change));
       if (!person) return false;
-      deps.onPersonChanged?.(person);
+      if (deps.onPersonChanged?.(person) === false) return true;
       const what =
         change.active === false
           ? `${person.name} can no longer sign in. Tablets forget their offline sign-in at their next sync.`

@@ -340,10 +340,17 @@ export function createPlumblineApp(deps: AppDeps) {
     set: (view) => set({ admin: view }),
     now: deps.now,
     onPersonChanged(person) {
-      // An admin who changed themself now has the role the server gave them.
-      if (state.person?.id !== person.id) return;
-      set({ person, ...(person.role !== 'admin' ? { screen: { name: 'board' }, admin: undefined } : {}) });
-      if (person.role !== 'admin') toast(`You are now ${person.role === 'engineer' ? 'an' : 'a'} ${person.role} at this site`);
+      // An admin who changed themself now has the role the server gave them, or is signed out.
+      if (state.person?.id !== person.id) return true;
+      if (!person.active) {
+        actions.signOut();
+        set({ error: 'You have withdrawn your own access to this site, so you have been signed out.' });
+        return false;
+      }
+      if (person.role === 'admin') return true;
+      set({ person, screen: { name: 'board' }, admin: undefined });
+      toast(`You are now ${person.role === 'engineer' ? 'an' : 'a'} ${person.role} at this site`);
+      return false;
     },
   });
 

@@ -14,6 +14,7 @@ export function describeSync(s: SyncView): { text: string; tone: 'clear' | 'wait
     const p = s.progress;
     return { text: p ? `Sending ${p.pushed}/${p.toPush} · received ${p.pulled}` : 'Sending…', tone: 'waiting' };
   }
+  if (s.withdrawn) return { text: `${waiting} · tablet withdrawn`, tone: 'failing' };
   if (s.state === 'offline') return { text: `${waiting} · no connection`, tone: s.pending ? 'waiting' : 'clear' };
   if (s.state === 'error') return { text: `${waiting} · last try failed`, tone: 'failing' };
   if (s.rejected > 0) return { text: `${waiting} · ${s.rejected} refused by server`, tone: 'failing' };

@@ -108,6 +108,14 @@ describe('people', () => {
     expect(t.app.getState().screen).toEqual({ name: 'board' });
   });
 
+  it('an admin who withdraws their own access (with another admin at the site) is signed out at once', async () => {
+    const t = await adminTablet();
+    expect(await t.app.actions.adminChangePerson('p-sup', { role: 'admin' })).toBe(true);
+    expect(await t.app.actions.adminChangePerson('p-adm', { active: false })).toBe(true);
+    expect(t.app.getState()).toMatchObject({ stage: 'sign-in', person: undefined, admin: undefined });
+    expect(t.app.getState().error).toBe('You have withdrawn your own access to this site, so you have been signed out.');
+  });
+
   it('resets a PIN: the new one signs in online, the old one no longer does', async () => {
     const t = await adminTablet();
     expect(await t.app.actions.adminResetPin('p-op', '5281', '5218')).toEqual({ ok: false, errors: { pinAgain: 'The two PINs are not the same.' } });

@@ -5,7 +5,7 @@ import type { AdminView } from '../../src/app/admin-controller';
 import type { AppState } from '../../src/app/app-state';
 import type { AdminDevice, AdminPerson } from '../../src/schema';
 import { AdminScreen } from '../../src/ui/admin/AdminScreen';
-import { TopBar } from '../../src/ui/TopBar';
+import { describeSync, TopBar } from '../../src/ui/TopBar';
 import { WithdrawnNotice } from '../../src/ui/WithdrawnNotice';
 import { fakeActions, readyState } from './helpers';
 
@@ -132,6 +132,7 @@ describe('the way in and the withdrawn tablet', () => {
   it('a withdrawn tablet says what that means and how many records stay on it', () => {
     render(<WithdrawnNotice state={readyState([], {}, { sync: { state: 'error', pending: 2, rejected: 0, withdrawn: true } })} />);
     expect(screen.getByRole('alert').textContent).toMatch(/^This tablet has been withdrawn from the site by an administrator\. .*2 records saved here have not reached the server: they stay on this tablet and on its charts\./);
+    expect(describeSync({ state: 'error', pending: 2, rejected: 0, withdrawn: true })).toEqual({ text: '2 waiting to send · tablet withdrawn', tone: 'failing' });
     cleanup();
     render(<WithdrawnNotice state={readyState([], {}, { sync: { state: 'idle', pending: 0, rejected: 0 } })} />);
     expect(screen.queryByRole('alert')).toBeNull();

@@ -82,7 +82,9 @@ function PersonRow({ person: p, isMe, actions, confirming, onConfirm, pinOpen, o
                   Withdraw {p.name}'s access
                 </button>
                 <button type="button" class="btn small" onClick={() => onConfirm(false)}>Keep</button>
-                <span class="hint">They can no longer sign in on any tablet; what they recorded stays.</span>
+                <span class="hint">
+                  {isMe ? 'This is you: you will be signed out at once. ' : ''}They can no longer sign in on any tablet; what they recorded stays.
+                </span>
               </>
             ) : p.active ? (
               <>
