@@ -29,7 +29,8 @@ export interface AdminActions {
   adminChangePerson(personId: string, change: PersonChangeRequest): Promise<boolean>;
   adminResetPin(personId: string, pin: string, pinAgain: string): Promise<FormOutcome>;
   adminRevokeTablet(deviceId: string): Promise<boolean>;
-  adminIssueCode(): Promise<boolean>;
+  /** A connection code for a new tablet, valid for `ttlMinutes` (the server's 15 minutes when not given). */
+  adminIssueCode(ttlMinutes?: number): Promise<boolean>;
 }
 
 export interface AdminControllerDeps {
@@ -167,9 +168,9 @@ export function createAdminController(deps: AdminControllerDeps): AdminActions {
       return true;
     },
 
-    async adminIssueCode() {
+    async adminIssueCode(ttlMinutes) {
       patch({ problem: undefined, notice: undefined });
-      const code = await withSession((api, s) => api.issueEnrolmentCode(s));
+      const code = await withSession((api, s) => api.issueEnrolmentCode(s, ttlMinutes));
       if (!code) return false;
       patch({ code, codeIssuedAt: deps.now() });
       return true;

@@ -1,6 +1,7 @@
 import {
   DeviceListResponse,
   EnrolmentCodeIssued,
+  EnrolmentCodeRequest,
   NewPersonRequest,
   PeopleListResponse,
   PersonChangeRequest,
@@ -22,7 +23,8 @@ export interface AdminApi {
   setPin(session: string, request: SetPinRequest): Promise<void>;
   listDevices(session: string): Promise<AdminDevice[]>;
   revokeDevice(session: string, deviceId: string): Promise<void>;
-  issueEnrolmentCode(session: string): Promise<EnrolmentCodeIssued>;
+  /** A one-time code; `ttlMinutes` (1 to 1440) defaults to the server's 15 minutes. */
+  issueEnrolmentCode(session: string, ttlMinutes?: number): Promise<EnrolmentCodeIssued>;
 }
 
 const NoContent = z.null();
@@ -59,8 +61,9 @@ export function createAdminApi(config: ApiConfig): AdminApi {
     async revokeDevice(session, deviceId) {
       await call(config, { method: 'POST', path: `/admin/devices/${encodeURIComponent(deviceId)}/revoke`, session, body: {} }, NoContent);
     },
-    async issueEnrolmentCode(session) {
-      return call(config, { method: 'POST', path: '/admin/enrolment-codes', session, body: {} }, EnrolmentCodeIssued);
+    async issueEnrolmentCode(session, ttlMinutes) {
+      const body = checked(EnrolmentCodeRequest, ttlMinutes === undefined ? {} : { ttlMinutes }, 'The code request');
+      return call(config, { method: 'POST', path: '/admin/enrolment-codes', session, body }, EnrolmentCodeIssued);
     },
   };
 }

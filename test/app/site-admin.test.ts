@@ -184,6 +184,9 @@ describe('tablets', () => {
     expect(await again.app.actions.enrol(code.code, 'Third tablet')).toBe(false);
     await t.app.actions.adminReload();
     expect(t.app.getState().admin?.devices?.map((d) => d.name)).toContain('Lathe tablet');
+    // A longer lifetime when asked for.
+    expect(await t.app.actions.adminIssueCode(60)).toBe(true);
+    expect(Date.parse(t.app.getState().admin!.code!.expiresAt) - server().now().getTime()).toBe(60 * 60_000);
   });
 
   it('a withdrawn tablet says so and keeps its unsent records, in the outbox and on the chart, also after a restart', async () => {

@@ -39,9 +39,12 @@ describe('AdminScreen: people', () => {
     expect(within(screen.getByTestId('person-gone')).getByText('No PIN set')).toBeTruthy();
   });
 
-  it('changes a role at once, withdraws access only after a second tap, and gives it back', async () => {
+  it('saves a role only with its button, withdraws access only after a second tap, and gives it back', async () => {
     const actions = admin({ loading: false, people, devices });
+    fireEvent.change(screen.getByLabelText('Role of Odile Op'), { target: { value: 'engineer' } });
     fireEvent.change(screen.getByLabelText('Role of Odile Op'), { target: { value: 'supervisor' } });
+    expect(actions.adminChangePerson).not.toHaveBeenCalled();
+    fireEvent.click(within(screen.getByTestId('person-odile')).getByRole('button', { name: 'Save role' }));
     expect(actions.adminChangePerson).toHaveBeenCalledWith('p-odile', { role: 'supervisor' });
     await waitFor(() => expect((screen.getByLabelText('Role of Odile Op') as HTMLSelectElement).disabled).toBe(false));
     fireEvent.click(screen.getByRole('button', { name: 'Withdraw access of Odile Op' }));
@@ -113,8 +116,10 @@ describe('AdminScreen: tablets', () => {
     const actions = admin({ loading: false, devices, code: { code: 'ABCDE-FGHJK', expiresAt: new Date(NOW - 1000).toISOString() } }, 'tablets');
     expect(screen.queryByTestId('enrolment-code')).toBeNull();
     expect(screen.getByTestId('code-card').textContent).toContain('The last code has expired.');
+    expect((screen.getByLabelText('Valid for') as HTMLSelectElement).value).toBe('15');
+    fireEvent.change(screen.getByLabelText('Valid for'), { target: { value: '60' } });
     fireEvent.click(screen.getByTestId('issue-code'));
-    expect(actions.adminIssueCode).toHaveBeenCalled();
+    expect(actions.adminIssueCode).toHaveBeenLastCalledWith(60);
   });
 });
 

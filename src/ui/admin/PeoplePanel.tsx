@@ -28,7 +28,7 @@ export function PeoplePanel({ state, view, actions }: { state: AppState; view: A
           </thead>
           <tbody>
             {people.map((p) => (
-              <PersonRow key={p.id} person={p} isMe={p.id === state.person?.id} actions={actions}
+              <PersonRow key={`${p.id}:${p.role}`} person={p} isMe={p.id === state.person?.id} actions={actions}
                 confirming={confirming === p.id} onConfirm={(on) => setConfirming(on ? p.id : undefined)}
                 pinOpen={pinFor === p.id} onPin={(on) => setPinFor(on ? p.id : undefined)} />
             ))}
@@ -51,11 +51,14 @@ interface RowProps {
 
 function PersonRow({ person: p, isMe, actions, confirming, onConfirm, pinOpen, onPin }: RowProps) {
   const [busy, setBusy] = useState(false);
+  // A new role is chosen first and saved with its own button: arrowing through the list changes nothing.
+  const [role, setRole] = useState<Role>(p.role);
   const change = async (c: { role?: Role; active?: boolean }) => {
     setBusy(true);
-    await actions.adminChangePerson(p.id, c);
+    const ok = await actions.adminChangePerson(p.id, c);
     setBusy(false);
     onConfirm(false);
+    if (!ok && c.role) setRole(p.role);
   };
   return (
     <>
@@ -65,10 +68,16 @@ function PersonRow({ person: p, isMe, actions, confirming, onConfirm, pinOpen, o
           <span class="admin-sub">{p.login}</span>
         </th>
         <td>
-          <select class="text-input" aria-label={`Role of ${p.name}`} value={p.role} disabled={busy || !p.active}
-            onChange={(e) => void change({ role: (e.target as HTMLSelectElement).value as Role })}>
+          <select class="text-input" aria-label={`Role of ${p.name}`} value={role} disabled={busy || !p.active}
+            onChange={(e) => setRole((e.target as HTMLSelectElement).value as Role)}>
             {Role.options.map((r) => <option key={r} value={r}>{ROLE_LABEL[r]}</option>)}
           </select>
+          {role !== p.role ? (
+            <div class="row" style="gap:8px;margin-top:8px">
+              <button type="button" class="btn small primary" disabled={busy} onClick={() => void change({ role })}>Save role</button>
+              <button type="button" class="btn small" onClick={() => setRole(p.role)}>Undo</button>
+            </div>
+          ) : null}
         </td>
         <td>
           {p.active ? <span class="chip steady">Can sign in</span> : <span class="chip neutral">Access withdrawn</span>}

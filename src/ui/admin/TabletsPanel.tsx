@@ -20,7 +20,7 @@ export function TabletsPanel({ state, view, actions }: { state: AppState; view: 
         {view.devices ? (
           <table class="handover-table admin-table" data-testid="tablets-table">
             <thead>
-              <tr><th scope="col">Tablet</th><th scope="col">Connected</th><th scope="col">Last sent records</th><th scope="col">Last sign-in</th><th scope="col">State</th><th scope="col"><span class="sr-only">Actions</span></th></tr>
+              <tr><th scope="col">Tablet</th><th scope="col">Last sent records</th><th scope="col">Last sign-in</th><th scope="col">State</th><th scope="col"><span class="sr-only">Actions</span></th></tr>
             </thead>
             <tbody>
               {devices.map((d) => (
@@ -45,8 +45,10 @@ function TabletRow({ device: d, isThis, actions, confirming, onConfirm }: { devi
   };
   return (
     <tr data-testid={`tablet-${d.name}`}>
-      <th scope="row">{d.name}{isThis ? <span class="hint"> (this tablet)</span> : null}</th>
-      <td>{formatShortDateTime(d.enrolledAt)}</td>
+      <th scope="row">
+        {d.name}{isThis ? <span class="hint"> (this tablet)</span> : null}
+        <span class="admin-sub">Connected {formatShortDateTime(d.enrolledAt)}</span>
+      </th>
       <td>{when(d.lastUploadAt)}</td>
       <td>{when(d.lastSignInAt)}</td>
       <td>{d.revokedAt ? <span class="chip neutral">Withdrawn {formatShortDateTime(d.revokedAt)}</span> : <span class="chip steady">In use</span>}</td>
