@@ -66,6 +66,17 @@ export const AdminDevice = z.object({
   revokedAt: z.nullable(Instant),
   lastUploadAt: z.optional(z.nullable(Instant)),
   lastSignInAt: z.optional(z.nullable(Instant)),
+  /**
+   * The tablet numbers every record it makes from 1; the server notes each number it receives.
+   * `gaps`: numbers below the highest never received (still waiting on the tablet, or lost if it
+   * was wiped), at most 20 ranges listed; `missing` counts them all.
+   */
+  records: z.optional(z.object({
+    received: z.int().check(z.minimum(0)),
+    highest: z.int().check(z.minimum(0)),
+    missing: z.int().check(z.minimum(0)),
+    gaps: z.array(z.object({ from: z.int().check(z.minimum(1)), to: z.int().check(z.minimum(1)) })),
+  })),
 });
 export type AdminDevice = z.infer<typeof AdminDevice>;
 

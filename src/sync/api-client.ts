@@ -162,7 +162,7 @@ export async function signIn(config: ApiConfig, deviceToken: string, request: Si
 export function pushRecords(
   config: ApiConfig,
   deviceToken: string,
-  request: { batchId: string; records: readonly DeviceRecord[] },
+  request: { batchId: string; records: readonly DeviceRecord[]; deviceSeqs?: readonly number[] },
 ): Promise<PushResponse> {
   return call(config, { method: 'POST', path: '/sync/push', token: deviceToken, body: request }, PushResponse);
 }
@@ -189,7 +189,7 @@ export async function postSetup(config: ApiConfig, deviceToken: string, sessionT
 
 /** The calls the sync engine needs; a fake can stand in for tests. */
 export interface SyncApi {
-  pushRecords(deviceToken: string, request: { batchId: string; records: readonly DeviceRecord[] }): Promise<PushResponse>;
+  pushRecords(deviceToken: string, request: { batchId: string; records: readonly DeviceRecord[]; deviceSeqs?: readonly number[] }): Promise<PushResponse>;
   pullEntries(deviceToken: string, after: number, limit?: number): Promise<PullPage>;
 }
 

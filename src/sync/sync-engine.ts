@@ -233,7 +233,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       await markSending(db, ids, now());
       let response;
       try {
-        response = await api.pushRecords(token, { batchId: newBatchId(), records: items.map((i) => i.record) });
+        response = await api.pushRecords(token, { batchId: newBatchId(), records: items.map((i) => i.record), deviceSeqs: items.map((i) => i.row.deviceSeq) });
       } catch (e) {
         const error = e instanceof ApiError ? e : new ApiError('bad-response', e instanceof Error ? e.message : String(e));
         if (error.code === 'rejected' && isContentRefusal(error.details.status)) {

@@ -107,6 +107,20 @@ describe('AdminScreen: tablets', () => {
     expect(actions.adminRevokeTablet).toHaveBeenCalledWith('tab-1');
   });
 
+  it('says which of a tablet\'s record numbers never reached the server, marked as a problem', () => {
+    const numbered: AdminDevice[] = [
+      { ...devices[0]!, records: { received: 118, highest: 120, missing: 2, gaps: [{ from: 57, to: 58 }] } },
+      { ...devices[1]!, records: { received: 40, highest: 40, missing: 0, gaps: [] } },
+    ];
+    admin({ loading: false, people, devices: numbered }, 'tablets');
+    const gap = within(screen.getByTestId('tablet-Press 4 tablet')).getByTestId('record-coverage');
+    expect(gap.textContent).toMatch(/118 of 120 received; not received: 57–58 \(2\)/);
+    expect(gap.className).toContain('coverage-missing');
+    const whole = within(screen.getByTestId('tablet-Old tablet')).getByTestId('record-coverage');
+    expect(whole.textContent).toBe('Records 1–40 received');
+    expect(whole.className).not.toContain('coverage-missing');
+  });
+
   it('shows a live connection code with its expiry and the steps; an expired one asks for a new code', () => {
     admin({ loading: false, devices, code: { code: 'ABCDE-FGHJK', expiresAt: new Date(NOW + 15 * 60_000).toISOString() }, codeIssuedAt: NOW }, 'tablets');
     expect(screen.getByTestId('enrolment-code').textContent).toBe('ABCDE-FGHJK');

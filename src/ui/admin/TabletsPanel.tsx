@@ -1,6 +1,7 @@
 import { useState } from 'preact/hooks';
 import type { AdminView } from '../../app/admin-controller';
 import type { AppActions, AppState } from '../../app/app-state';
+import { coverageNote } from '../../app/record-coverage';
 import type { AdminDevice } from '../../schema';
 import { formatShortDateTime } from '../format-time';
 import { EnrolmentCodeCard } from './EnrolmentCodeCard';
@@ -37,6 +38,7 @@ export function TabletsPanel({ state, view, actions }: { state: AppState; view: 
 
 function TabletRow({ device: d, isThis, actions, confirming, onConfirm }: { device: AdminDevice; isThis: boolean; actions: AppActions; confirming: boolean; onConfirm(on: boolean): void }) {
   const [busy, setBusy] = useState(false);
+  const coverage = coverageNote(d.records);
   const withdraw = async () => {
     setBusy(true);
     await actions.adminRevokeTablet(d.id);
@@ -49,7 +51,10 @@ function TabletRow({ device: d, isThis, actions, confirming, onConfirm }: { devi
         {d.name}{isThis ? <span class="hint"> (this tablet)</span> : null}
         <span class="admin-sub">Connected {formatShortDateTime(d.enrolledAt)}</span>
       </th>
-      <td>{when(d.lastUploadAt)}</td>
+      <td>
+        {when(d.lastUploadAt)}
+        {coverage ? <span class={coverage.missing ? 'admin-sub coverage-missing' : 'admin-sub'} data-testid="record-coverage">{coverage.text}</span> : null}
+      </td>
       <td>{when(d.lastSignInAt)}</td>
       <td>{d.revokedAt ? <span class="chip neutral">Withdrawn {formatShortDateTime(d.revokedAt)}</span> : <span class="chip steady">In use</span>}</td>
       <td>
