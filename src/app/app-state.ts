@@ -1,5 +1,5 @@
 import type { Analysis, Signal } from '../engine/types';
-import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, Site, Station } from '../schema';
+import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, Sample, Site, Station } from '../schema';
 import type { ChartSeries } from './analysis-input';
 import type { DueStatus } from './due-state';
 import type { SignalGroup } from './signal-state';
@@ -63,7 +63,9 @@ export type Screen =
   | { readonly name: 'board' }
   | { readonly name: 'overview' }
   | { readonly name: 'handover' }
-  | { readonly name: 'characteristic'; readonly characteristicId: string };
+  | { readonly name: 'characteristic'; readonly characteristicId: string }
+  /** CSV import of a characteristic's history (engineer and admin only). */
+  | { readonly name: 'import'; readonly characteristicId: string };
 
 export interface AppState {
   readonly stage: 'starting' | 'enrol' | 'sign-in' | 'ready' | 'failed';
@@ -95,6 +97,12 @@ export interface EntryInput {
   readonly comment?: string;
 }
 
+/** What an import wrote: new samples, and samples this tablet already held (imported before). */
+export interface ImportOutcome {
+  readonly saved: number;
+  readonly alreadyHeld: number;
+}
+
 export interface AnswerInput {
   readonly whatHappened: string;
   readonly causeCategory: string;
@@ -119,6 +127,11 @@ export interface AppActions {
   correct(characteristicId: string, sampleId: string, entry: EntryInput, reason: string): Promise<boolean>;
   /** Leave a point out of (or back in) the limit calculation: engineer only, with a reason. */
   setExcluded(characteristicId: string, sampleId: string, excluded: boolean, reason: string): Promise<boolean>;
+  /**
+   * Records checked import samples (engineer and admin only) in batches, each batch in one transaction with
+   * its outbox rows; `onProgress` after each batch. Null when nothing could be saved (state.error says why).
+   */
+  importSamples(characteristicId: string, samples: readonly Sample[], onProgress?: (done: number, total: number) => void): Promise<ImportOutcome | null>;
   setTheme(theme: 'light' | 'dark'): void;
   syncNow(): Promise<void>;
   openSyncDetails(): Promise<void>;

@@ -10,6 +10,7 @@ import {
   resetSendingOnStart,
   listOutboxProblems,
   saveDeviceRecord,
+  saveImportedSamples,
   saveSignedInPerson,
   getSignedInPerson,
   setDeviceIdentity,
@@ -27,6 +28,7 @@ import {
   type AppState,
   type CharacteristicView,
   type EntryInput,
+  type ImportOutcome,
   type Screen,
   type SignalPrompt,
   type SyncView,
@@ -77,6 +79,8 @@ export interface AppDeps {
 
 const SUPERVISING: readonly Person['role'][] = ['supervisor', 'engineer', 'admin'];
 const ENGINEERING: readonly Person['role'][] = ['engineer', 'admin'];
+/** Imported samples saved per transaction: big enough to be quick, small enough to keep the screen painting. */
+const IMPORT_BATCH = 500;
 
 function toPerson(p: SignedInPerson): Person {
   return { id: p.personId, name: p.name, login: p.login, role: p.role, active: true };
@@ -358,7 +362,7 @@ export function createPlumblineApp(deps: AppDeps) {
     },
     open(screen: Screen) {
       set({ screen, error: undefined });
-      if (screen.name === 'characteristic') void refreshViews([screen.characteristicId]);
+      if (screen.name === 'characteristic' || screen.name === 'import') void refreshViews([screen.characteristicId]);
       else if (screen.name === 'overview' || screen.name === 'handover') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else void refreshViews();
     },
@@ -495,6 +499,41 @@ export function createPlumblineApp(deps: AppDeps) {
         return false;
       }
       return saveSupersedingSample(characteristicId, original, { excluded, reason: reason.trim() }, excluded ? 'exclusion' : 'inclusion');
+    },
+
+    async importSamples(characteristicId, samples, onProgress) {
+      if (!identity || !state.person) return null;
+      if (!ENGINEERING.includes(state.person.role)) {
+        set({ error: 'Only a quality engineer (or admin) can import history.' });
+        return null;
+      }
+      if (samples.some((s) => s.characteristicId !== characteristicId)) {
+        set({ error: 'The import was NOT saved: some samples belong to another characteristic.' });
+        return null;
+      }
+      let saved = 0;
+      let alreadyHeld = 0;
+      let failed = false;
+      try {
+        for (let i = 0; i < samples.length; i += IMPORT_BATCH) {
+          const r = await saveImportedSamples(db, samples.slice(i, i + IMPORT_BATCH), deps.now());
+          saved += r.saved;
+          alreadyHeld += r.alreadyHeld;
+          onProgress?.(Math.min(i + IMPORT_BATCH, samples.length), samples.length);
+          // Let the screen paint between batches: a big file must not freeze it.
+          await new Promise((resolve) => setTimeout(resolve, 0));
+        }
+      } catch (e) {
+        failed = true;
+        set({ error: `The import stopped: ${saved} sample${saved === 1 ? ' was' : 's were'} saved, the rest was NOT saved: ${messageOf(e)}` });
+      }
+      // The in-memory copy is read again from IndexedDB (a sort of thousands of appends would cost more).
+      records.delete(characteristicId);
+      announce([characteristicId]);
+      await refreshViews([characteristicId]);
+      if (saved > 0) sendSoon();
+      const outcome: ImportOutcome = { saved, alreadyHeld };
+      return failed && saved === 0 ? null : outcome;
     },
 
     setTheme(theme) {
