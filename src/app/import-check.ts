@@ -237,3 +237,9 @@ export function guessDecimal(rows: readonly MappedRow[]): ',' | '.' {
   }
   return comma > 0 && point === 0 ? ',' : '.';
 }
+
+/** The typo guard of the chart as it stands: centre and within-subgroup sigma of its current phase. */
+export function typoGuardOf(phases: readonly { readonly centre: number | null; readonly sigmaWithin: number | null }[]): { centre: number; sigma: number } | undefined {
+  const phase = phases[phases.length - 1];
+  return phase && phase.centre !== null && phase.sigmaWithin !== null && phase.sigmaWithin > 0 ? { centre: phase.centre, sigma: phase.sigmaWithin } : undefined;
+}

@@ -110,9 +110,9 @@ export function guessMapping(table: CsvTable, ch: Characteristic): { layout: Fil
   const first = table.rows[0];
   if (!first) return { layout: 'plain', mapping: { hasHeader: false, roles: [] } };
   if (isExportHeader(first.cells)) return { layout: 'export', mapping: exportMapping(first.cells) };
-  const width = Math.max(...table.rows.slice(0, 50).map((r) => r.cells.length));
   const firstIsData = first.cells.some((c) => parseImportTime(c, { dateOrder: 'dmy' }).kind === 'instant');
-  if (firstIsData) return { layout: 'plain', mapping: { hasHeader: false, roles: positionalRoles(width, ch) } };
+  if (firstIsData) return { layout: 'plain', mapping: { hasHeader: false, roles: positionalRoles(usualWidth(table.rows), ch) } };
+  const width = first.cells.length;
   const sample = table.rows[1];
   const roles = Array.from({ length: width }, (_, i): ColumnRole => {
     const byName = roleByName(first.cells[i] ?? '') ?? 'ignore';
@@ -169,11 +169,19 @@ export interface MappedRow {
   readonly sampleId?: string;
 }
 
+/** The field count most rows have. */
+function usualWidth(rows: readonly CsvRow[]): number {
+  const tally = new Map<number, number>();
+  for (const r of rows.slice(0, 200)) tally.set(r.cells.length, (tally.get(r.cells.length) ?? 0) + 1);
+  return [...tally].sort((a, b) => b[1] - a[1] || a[0] - b[0])[0]?.[0] ?? 0;
+}
+
 /** Applies the mapping: the data rows (the header row left out) with their cells by role. Pure. */
 export function mapRows(table: CsvTable, mapping: ColumnMapping): MappedRow[] {
   const data: readonly CsvRow[] = mapping.hasHeader ? table.rows.slice(1) : table.rows;
+  const width = mapping.hasHeader ? table.rows[0]?.cells.length ?? 0 : usualWidth(data);
   return data.map((row) => {
-    const out: { -readonly [K in keyof MappedRow]: MappedRow[K] } = { line: row.line, cellCount: row.cells.length, width: mapping.roles.length, values: [] };
+    const out: { -readonly [K in keyof MappedRow]: MappedRow[K] } = { line: row.line, cellCount: row.cells.length, width, values: [] };
     const values: string[] = [];
     mapping.roles.forEach((role, i) => {
       const cell = (row.cells[i] ?? '').trim();

@@ -37,15 +37,13 @@ export function readCsvTable(text: string, delimiter?: CsvDelimiter): CsvTable {
     return line;
   };
   let start = 0;
-  let used: string = delimiter ?? ',';
+  const used = delimiter ?? detectDelimiter(body);
   Papa.parse<string[]>(body, {
-    delimiter: delimiter ?? '',
-    delimitersToGuess: [...DELIMITERS],
+    delimiter: used,
     skipEmptyLines: false,
     step(result) {
       const rowLine = lineAt(start);
       start = result.meta.cursor;
-      used = result.meta.delimiter;
       const cells = result.data;
       for (const e of result.errors) {
         if (e.type === 'Quotes') problems.push({ line: rowLine, message: `Line ${rowLine}: a quoted field is not closed (${e.message}).` });
@@ -54,5 +52,23 @@ export function readCsvTable(text: string, delimiter?: CsvDelimiter): CsvTable {
       rows.push({ line: rowLine, cells });
     },
   });
-  return { rows, delimiter: (DELIMITERS as readonly string[]).includes(used) ? (used as CsvDelimiter) : ',', problems };
+  return { rows, delimiter: used, problems };
+}
+
+/**
+ * The delimiter that splits the first lines most evenly into more than one field (quotes respected):
+ * the share of lines with the usual field count first, then the field count. Comma when none splits.
+ */
+export function detectDelimiter(text: string): CsvDelimiter {
+  let best: { d: CsvDelimiter; share: number; fields: number } = { d: ',', share: 0, fields: 1 };
+  for (const d of DELIMITERS) {
+    const lines = Papa.parse<string[]>(text, { delimiter: d, preview: 20, skipEmptyLines: 'greedy' }).data;
+    if (!lines.length) continue;
+    const tally = new Map<number, number>();
+    for (const l of lines) tally.set(l.length, (tally.get(l.length) ?? 0) + 1);
+    const [fields, often] = [...tally].sort((a, b) => b[1] - a[1] || b[0] - a[0])[0]!;
+    const share = often / lines.length;
+    if (fields > 1 && (share > best.share || (share === best.share && fields > best.fields))) best = { d, share, fields };
+  }
+  return best.d;
 }
