@@ -121,7 +121,23 @@ export function guessMapping(table: CsvTable, ch: Characteristic): { layout: Fil
     const kind = sample ? parseImportTime(sample.cells[i] ?? '', { dateOrder: 'dmy' }).kind : undefined;
     return kind === 'instant' ? 'takenAt' : kind === 'date' ? 'date' : kind === 'clock' ? 'timeOfDay' : byName;
   });
-  return { layout: 'plain', mapping: { hasHeader: true, roles: fitToChart(roles, ch) } };
+  return { layout: 'plain', mapping: { hasHeader: true, roles: fillNumbers(fitToChart(roles, ch), sample?.cells ?? [], ch) } };
+}
+
+/**
+ * Columns whose header says nothing we know ("Torque", "Ø bore") but whose first value is a number are
+ * taken, left to right, for what the chart still lacks: the measured values, or the count and quantity;
+ * likewise a column holding a date and time when none is named for it.
+ */
+function fillNumbers(guessed: ColumnRole[], firstData: readonly string[], ch: Characteristic): ColumnRole[] {
+  // With no column named for the time, the first unknown one that holds a date and time is it.
+  const timeAt = guessed.some((r) => r === 'takenAt' || r === 'date') ? -1
+    : guessed.findIndex((r, i) => r === 'ignore' && parseImportTime(firstData[i] ?? '', { dateOrder: 'dmy' }).kind === 'instant');
+  const roles = guessed.map((r, i) => (i === timeAt ? 'takenAt' : r));
+  const wanted: ColumnRole[] = isVariableChart(ch.chartType)
+    ? Array.from({ length: Math.max(0, valuesPerSubgroup(ch) - roles.filter((r) => r === 'value').length) }, () => 'value' as const)
+    : (['count', 'inspected'] as const).filter((r) => !roles.includes(r) && !(r === 'inspected' && ch.chartType === 'c'));
+  return roles.map((r, i) => (r === 'ignore' && wanted.length && /^[-+]?\d+([.,]\d+)?$/.test(firstData[i]?.trim() ?? '') ? wanted.shift()! : r));
 }
 
 /** Count columns mean nothing to a measured chart, value columns nothing to a counted one. */
@@ -195,4 +211,23 @@ export function mapRows(table: CsvTable, mapping: ColumnMapping): MappedRow[] {
     out.values = values;
     return out;
   });
+}
+
+/**
+ * Remarks on an export from another characteristic: where it came from, and a unit that differs from
+ * this characteristic's (a mm file into a µm chart would be nonsense). Empty for a plain layout.
+ */
+export function exportNotes(table: CsvTable, ch: Characteristic): { notes: string[]; cautions: string[] } {
+  const header = table.rows[0]?.cells.map((c) => c.trim()) ?? [];
+  if (!isExportHeader(header)) return { notes: [], cautions: [] };
+  const distinct = (name: string) => {
+    const i = header.indexOf(name);
+    return [...new Set(table.rows.slice(1).map((r) => r.cells[i]?.trim() ?? '').filter((v) => v !== ''))];
+  };
+  const from = distinct('characteristic').filter((id) => id !== ch.id);
+  const units = distinct('unit').filter((u) => u !== ch.unit);
+  return {
+    notes: from.length ? [`This file was exported from ${from.map((f) => `“${f}”`).join(', ')}; its samples will be recorded for ${ch.name}.`] : [],
+    cautions: units.length ? [`The file's unit is ${units.map((u) => `“${u}”`).join(', ')}, but ${ch.name} is measured in “${ch.unit}”. Check that this is the right characteristic.`] : [],
+  };
 }

@@ -5,6 +5,7 @@ import { EnrolScreen } from './EnrolScreen';
 import { SignalPromptSheet } from './SignalPromptSheet';
 import { SignInScreen } from './SignInScreen';
 import { HandoverScreen } from './HandoverScreen';
+import { ImportScreen } from './import/ImportScreen';
 import { SiteOverview } from './SiteOverview';
 import { SyncSheet } from './SyncSheet';
 import { StationBoard } from './StationBoard';
@@ -26,6 +27,7 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
   else if (state.stage === 'enrol') body = <EnrolScreen state={state} actions={actions} />;
   else if (state.stage === 'sign-in') body = <SignInScreen state={state} actions={actions} />;
   else if (state.screen.name === 'characteristic') body = <CharacteristicScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
+  else if (state.screen.name === 'import') body = <ImportScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
   else if (state.screen.name === 'overview') body = <SiteOverview state={state} actions={actions} />;
   else if (state.screen.name === 'handover') body = <HandoverScreen state={state} actions={actions} />;
   else body = <StationBoard state={state} actions={actions} />;

@@ -60,6 +60,11 @@ export function CharacteristicScreen({ state, actions, characteristicId, separat
               }}>
                 Export history (CSV)
               </button>
+              {state.person?.role === 'engineer' || state.person?.role === 'admin' ? (
+                <button type="button" class="btn small" data-testid="import-csv" onClick={() => actions.open({ name: 'import', characteristicId })}>
+                  Import history (CSV)
+                </button>
+              ) : null}
             </div>
           ) : null}
           {view && showCapability ? <CapabilityPanel view={view} /> : null}

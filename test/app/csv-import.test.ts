@@ -162,6 +162,12 @@ describe('a plain layout typed in a spreadsheet', () => {
     expect(mapping.roles).toEqual(['takenAt', 'value']);
   });
 
+  it('takes an unknown header over a number for the value the chart still lacks', () => {
+    expect(importText('Taken,Torque,Batch,Notes\n2026-12-01 08:00,25.1,B-1,\n', makeCharacteristic()).mapping.roles).toEqual(['takenAt', 'value', 'lot', 'comment']);
+    const p = makeCharacteristic({ chartType: 'p', subgroupSize: 50 });
+    expect(importText('when,rejects,of\n2026-12-01 08:00,3,50\n', p).mapping.roles).toEqual(['takenAt', 'count', 'inspected']);
+  });
+
   it('takes a file with no header row in column order: time, values, lot, comment', () => {
     const { mapping, checked } = importText('2026-12-01 08:00,500.1,500.2,500.3,L1,ok\n', XBAR);
     expect(mapping).toEqual({ hasHeader: false, roles: ['takenAt', 'value', 'value', 'value', 'lot', 'comment'] });

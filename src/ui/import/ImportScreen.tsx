@@ -1,0 +1,158 @@
+import { useMemo, useState } from 'preact/hooks';
+import type { AppActions, AppState, ImportOutcome } from '../../app/app-state';
+import { checkImportRows, guessDecimal, samplesToImport, summarizeImport, typoGuardOf } from '../../app/import-check';
+import { exportNotes, guessMapping, mappingProblems, mapRows, valuesPerSubgroup, type ColumnMapping } from '../../app/import-mapping';
+import { readCsvTable, type CsvDelimiter } from '../../app/import-table';
+import type { DateOrder } from '../../app/import-time';
+import { isVariableChart } from '../../schema';
+import { ColumnMappingPanel } from './ColumnMappingPanel';
+import { ImportPreview } from './ImportPreview';
+import { ImportSource } from './ImportSource';
+
+const DELIMITER_NAMES: Record<CsvDelimiter, string> = { ',': 'comma', ';': 'semicolon', '\t': 'tab' };
+
+/** CSV import of a characteristic's history: read, map, check, preview, and record only on confirmation. */
+export function ImportScreen({ state, actions, characteristicId, separator }: {
+  state: AppState; actions: AppActions; characteristicId: string; separator: ',' | '.';
+}) {
+  const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
+  const view = state.views[characteristicId];
+  const [source, setSource] = useState<{ text: string; name: string } | null>(null);
+  const [delimiter, setDelimiter] = useState<CsvDelimiter | 'auto'>('auto');
+  const [mappingChoice, setMappingChoice] = useState<ColumnMapping | null>(null);
+  const [decimalChoice, setDecimalChoice] = useState<',' | '.' | null>(null);
+  const [dateOrder, setDateOrder] = useState<DateOrder>('dmy');
+  const [includeFlagged, setIncludeFlagged] = useState(false);
+  const [progress, setProgress] = useState<{ done: number; total: number } | null>(null);
+  const [outcome, setOutcome] = useState<ImportOutcome | null>(null);
+
+  const table = useMemo(() => (source ? readCsvTable(source.text, delimiter === 'auto' ? undefined : delimiter) : null), [source, delimiter]);
+  const guessed = useMemo(() => (table && ch ? guessMapping(table, ch) : null), [table, ch]);
+  const mapping = mappingChoice ?? guessed?.mapping ?? null;
+  const mapped = useMemo(() => (table && mapping ? mapRows(table, mapping) : []), [table, mapping]);
+  const decimal = decimalChoice ?? guessDecimal(mapped);
+  const issues = ch && mapping ? mappingProblems(mapping, ch) : [];
+  const existing = view?.series.samples;
+  const checked = useMemo(() => {
+    if (!ch || !state.person || !state.device || !source || issues.length) return [];
+    const guard = view ? typoGuardOf(view.analysis.phases) : undefined;
+    return checkImportRows(mapped, {
+      characteristic: ch, existing: existing ?? [], ...(guard ? { guard } : {}), decimal, dateOrder, now: Date.now(),
+      recordedBy: state.person.id, deviceId: state.device.deviceId, fileName: source.name,
+    });
+  }, [ch, mapped, existing, decimal, dateOrder, issues.length]);
+  const summary = summarizeImport(checked);
+
+  if (!ch) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
+  const back = () => actions.open({ name: 'characteristic', characteristicId });
+  const allowed = state.person?.role === 'engineer' || state.person?.role === 'admin';
+  const notes = table ? exportNotes(table, ch) : { notes: [], cautions: [] };
+  const toRecord = summary.ready + (includeFlagged ? summary.check : 0);
+  const expected = isVariableChart(ch.chartType)
+    ? `${valuesPerSubgroup(ch) === 1 ? 'the measured value' : `${valuesPerSubgroup(ch)} measured values (one column each)`}`
+    : ch.chartType === 'c' ? 'the count' : 'the count and the quantity inspected';
+
+  const read = (text: string, name: string) => {
+    setSource({ text, name });
+    setMappingChoice(null);
+    setDecimalChoice(null);
+    setIncludeFlagged(false);
+    setOutcome(null);
+  };
+  const record = async () => {
+    const samples = samplesToImport(checked, includeFlagged);
+    setProgress({ done: 0, total: samples.length });
+    const result = await actions.importSamples(ch.id, samples, (done, total) => setProgress({ done, total }));
+    setProgress(null);
+    setOutcome(result);
+  };
+
+  return (
+    <main class="main stack" data-testid="import-screen">
+      <div class="stack" style="gap:8px">
+        <button type="button" class="btn quiet small" onClick={back} style="align-self:flex-start;padding-left:0">← {ch.name}</button>
+        <h1>Import history into {ch.name}</h1>
+        <p class="hint">
+          One row per subgroup: the date and time it was taken, {expected}, and if you like a lot and a comment.
+          A history export from Plumbline is read as it is. Nothing is recorded until you confirm.
+        </p>
+      </div>
+      {!allowed ? (
+        <p class="caution" role="alert">Only a quality engineer (or admin) can import history. Ask one to sign in on this tablet.</p>
+      ) : (
+        <>
+          <ImportSource onRead={read} current={source?.name} />
+          {table && mapping ? (
+            <section class="card stack" aria-labelledby="import-reading-title">
+              <h2 id="import-reading-title">How the file is read</h2>
+              <p data-testid="import-layout">
+                {guessed?.layout === 'export' ? 'A Plumbline history export: its columns are read as written.' : 'Check what each column holds.'}
+                {' '}{table.rows.length} row{table.rows.length === 1 ? '' : 's'}, separated by {DELIMITER_NAMES[table.delimiter]}.
+              </p>
+              {notes.notes.map((n) => <p class="hint" key={n}>{n}</p>)}
+              {notes.cautions.map((n) => <p class="caution" key={n}>{n}</p>)}
+              {table.problems.map((p) => <p class="caution" key={p.line}>{p.message}</p>)}
+              <div class="import-options">
+                <label class="entry-field">
+                  <span class="hint">Fields separated by</span>
+                  <select class="text-input" value={delimiter} onChange={(e) => { setDelimiter((e.target as HTMLSelectElement).value as CsvDelimiter | 'auto'); setMappingChoice(null); }}>
+                    <option value="auto">Detect ({DELIMITER_NAMES[table.delimiter]})</option>
+                    <option value=",">Comma</option>
+                    <option value=";">Semicolon</option>
+                    <option value={'\t'}>Tab</option>
+                  </select>
+                </label>
+                <label class="entry-field">
+                  <span class="hint">Decimal mark in the numbers</span>
+                  <select class="text-input" value={decimal} data-testid="decimal-mark" onChange={(e) => setDecimalChoice((e.target as HTMLSelectElement).value as ',' | '.')}>
+                    <option value=".">Point (10.25)</option>
+                    <option value=",">Comma (10,25)</option>
+                  </select>
+                </label>
+                <label class="entry-field">
+                  <span class="hint">Dates written with slashes</span>
+                  <select class="text-input" value={dateOrder} onChange={(e) => setDateOrder((e.target as HTMLSelectElement).value as DateOrder)}>
+                    <option value="dmy">Day first (31/12/2026)</option>
+                    <option value="mdy">Month first (12/31/2026)</option>
+                  </select>
+                </label>
+              </div>
+              {guessed?.layout === 'export' ? (
+                <details>
+                  <summary class="hint" style="min-height:48px;display:flex;align-items:center;cursor:pointer">Show the columns</summary>
+                  <ColumnMappingPanel table={table} mapping={mapping} characteristic={ch} onChange={setMappingChoice} />
+                </details>
+              ) : <ColumnMappingPanel table={table} mapping={mapping} characteristic={ch} onChange={setMappingChoice} />}
+              {issues.map((p) => <p class="error-text" role="alert" key={p}>{p}</p>)}
+            </section>
+          ) : null}
+          {checked.length ? (
+            <ImportPreview rows={checked} summary={summary} characteristic={ch} separator={separator}
+              includeFlagged={includeFlagged} onIncludeFlagged={setIncludeFlagged} />
+          ) : null}
+          {source && !issues.length ? (
+            <section class="card stack" aria-label="Record the samples">
+              {progress ? (
+                <div class="stack" style="gap:8px" role="status">
+                  <span>Recording… {progress.done} of {progress.total}</span>
+                  <progress max={progress.total} value={progress.done} aria-label="Samples recorded" />
+                </div>
+              ) : outcome ? (
+                <p class="caution all-clear" role="status" data-testid="import-outcome">
+                  {outcome.saved} sample{outcome.saved === 1 ? '' : 's'} recorded on this tablet, marked as imported
+                  {outcome.alreadyHeld ? ` (${outcome.alreadyHeld} were already here)` : ''}. They go to the site server with the next sync.
+                </p>
+              ) : null}
+              <div class="row">
+                <button type="button" class="btn primary" data-testid="import-confirm" disabled={toRecord === 0 || progress !== null} onClick={() => void record()}>
+                  {toRecord === 0 ? 'Nothing to record' : `Record ${toRecord} sample${toRecord === 1 ? '' : 's'}`}
+                </button>
+                <button type="button" class="btn" onClick={back}>{outcome ? 'Back to the chart' : 'Cancel'}</button>
+              </div>
+            </section>
+          ) : null}
+        </>
+      )}
+    </main>
+  );
+}
