@@ -43,14 +43,17 @@ export const FUTURE_TOLERANCE_MS = 5 * 60_000;
 
 type Parsed = { ok: true; value: number } | { ok: false; message: string };
 
+const NUMBER = { '.': /^[-+]?(\d+(\.\d*)?|\.\d+)$/, ',': /^[-+]?(\d+(,\d*)?|,\d+)$/ } as const;
+const OTHER_MARK = { '.': /^[-+]?\d+,\d+$/, ',': /^[-+]?\d+\.\d+$/ } as const;
+
 /** A number as the chosen decimal mark writes it; the other mark is a problem that names the choice. */
 export function readImportNumber(text: string, decimal: ',' | '.'): Parsed {
   const t = text.trim().replace('−', '-');
   const other = decimal === ',' ? '.' : ',';
-  if (new RegExp(`^[-+]?\\d+\\${other}\\d+$`).test(t)) {
+  if (OTHER_MARK[decimal].test(t)) {
     return { ok: false, message: `“${text}” is written with a decimal ${other === ',' ? 'comma' : 'point'}, but the file is read with a decimal ${decimal === ',' ? 'comma' : 'point'}: change the decimal mark above if the whole file uses it.` };
   }
-  if (!new RegExp(`^[-+]?(\\d+(\\${decimal}\\d*)?|\\${decimal}\\d+)$`).test(t)) return { ok: false, message: `“${text}” is not a number.` };
+  if (!NUMBER[decimal].test(t)) return { ok: false, message: `“${text}” is not a number.` };
   const value = Number(t.replace(decimal, '.'));
   return Number.isFinite(value) ? { ok: true, value } : { ok: false, message: `“${text}” is not a number.` };
 }
@@ -80,6 +83,14 @@ const FALSE = /^(false|no|n|0)?$/i;
  * number and status: nothing is dropped. Pure.
  */
 export function checkImportRows(rows: readonly MappedRow[], ctx: ImportContext): CheckedRow[] {
+  return rows.map(createRowChecker(ctx));
+}
+
+/**
+ * The checker behind checkImportRows, one row at a time in file order (it remembers the rows before, to
+ * find repeats), so that a screen can check a big file in slices between paints.
+ */
+export function createRowChecker(ctx: ImportContext): (row: MappedRow) => CheckedRow {
   const ch = ctx.characteristic;
   const existingIds = new Set(ctx.existing.map((s) => s.id));
   const existingReadings = new Map(ctx.existing.map((s) => [sameReading(s), s] as const));
@@ -89,7 +100,7 @@ export function checkImportRows(rows: readonly MappedRow[], ctx: ImportContext):
   const localTime = ctx.localTime;
   const timeOptions = { dateOrder: ctx.dateOrder, ...(localTime ? { localTime } : {}) };
 
-  return rows.map((row): CheckedRow => {
+  return (row: MappedRow): CheckedRow => {
     const problems: string[] = [];
     const doubts: string[] = [];
     if (row.cellCount > row.width && row.width > 0) {
@@ -200,7 +211,7 @@ export function checkImportRows(rows: readonly MappedRow[], ctx: ImportContext):
     if (earlier !== undefined) return { line: row.line, status: 'problem', problems: [`Repeats line ${earlier} (same time and ${variable ? 'values' : 'count'}).`] };
     seenInFile.set(reading, row.line);
     return doubts.length ? { line: row.line, status: 'check', problems: doubts, sample } : { line: row.line, status: 'ready', problems: [], sample };
-  });
+  };
 }
 
 export interface ImportSummary {

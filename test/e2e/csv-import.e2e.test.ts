@@ -148,7 +148,8 @@ describe.skipIf(!run)('history import', () => {
     expect(await page.getByTestId('import-outcome').innerText()).toContain('10000 samples recorded');
     await page.getByRole('button', { name: 'Back to the chart' }).click();
     await expect.poll(() => pointCount(page), { timeout: 30_000 }).toBe(before + 10_000);
-    // No single stretch of main-thread work long enough to feel frozen (a tap answered within a second).
-    expect(longest).toBeLessThan(1000);
+    // No stretch of main-thread work long enough to feel frozen. Measured here 137–174 ms (the chart's
+    // re-read of 10,000 samples at the end); before the check ran in slices it was 487 ms.
+    expect(longest).toBeLessThan(400);
   });
 });

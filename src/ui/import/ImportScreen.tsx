@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'preact/hooks';
 import type { AppActions, AppState, ImportOutcome } from '../../app/app-state';
-import { checkImportRows, guessDecimal, samplesToImport, summarizeImport, typoGuardOf } from '../../app/import-check';
+import { guessDecimal, samplesToImport, summarizeImport, typoGuardOf, type ImportContext } from '../../app/import-check';
 import { exportNotes, guessMapping, mappingProblems, mapRows, valuesPerSubgroup, type ColumnMapping } from '../../app/import-mapping';
 import { readCsvTable, type CsvDelimiter } from '../../app/import-table';
 import type { DateOrder } from '../../app/import-time';
@@ -8,6 +8,8 @@ import { isVariableChart } from '../../schema';
 import { ColumnMappingPanel } from './ColumnMappingPanel';
 import { ImportPreview } from './ImportPreview';
 import { ImportSource } from './ImportSource';
+import { SafetyCaution } from '../SafetyCaution';
+import { useCheckedRows } from './use-checked-rows';
 
 const DELIMITER_NAMES: Record<CsvDelimiter, string> = { ',': 'comma', ';': 'semicolon', '\t': 'tab' };
 
@@ -32,15 +34,19 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
   const mapped = useMemo(() => (table && mapping ? mapRows(table, mapping) : []), [table, mapping]);
   const decimal = decimalChoice ?? guessDecimal(mapped);
   const issues = ch && mapping ? mappingProblems(mapping, ch) : [];
-  const existing = view?.series.samples;
-  const checked = useMemo(() => {
-    if (!ch || !state.person || !state.device || !source || issues.length) return [];
+  // The chart's samples change identity on every refresh: check again only when they really changed.
+  const existing = view?.series.samples ?? [];
+  const existingKey = `${existing.length}:${existing[existing.length - 1]?.id ?? ''}`;
+  const ctx = useMemo((): ImportContext | null => {
+    if (!ch || !state.person || !state.device || !source || issues.length) return null;
     const guard = view ? typoGuardOf(view.analysis.phases) : undefined;
-    return checkImportRows(mapped, {
-      characteristic: ch, existing: existing ?? [], ...(guard ? { guard } : {}), decimal, dateOrder, now: Date.now(),
+    return {
+      characteristic: ch, existing, ...(guard ? { guard } : {}), decimal, dateOrder, now: Date.now(),
       recordedBy: state.person.id, deviceId: state.device.deviceId, fileName: source.name,
-    });
-  }, [ch, mapped, existing, decimal, dateOrder, issues.length]);
+    };
+  }, [ch, existingKey, decimal, dateOrder, issues.length, source]);
+  const { rows: checkedRows, running } = useCheckedRows(mapped, ctx);
+  const checked = ctx ? checkedRows ?? [] : [];
   const summary = summarizeImport(checked);
 
   if (!ch) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
@@ -48,6 +54,7 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
   const allowed = state.person?.role === 'engineer' || state.person?.role === 'admin';
   const notes = table ? exportNotes(table, ch) : { notes: [], cautions: [] };
   const toRecord = summary.ready + (includeFlagged ? summary.check : 0);
+  const dataRows = table ? table.rows.length - (mapping?.hasHeader ? 1 : 0) : 0;
   const expected = isVariableChart(ch.chartType)
     ? `${valuesPerSubgroup(ch) === 1 ? 'the measured value' : `${valuesPerSubgroup(ch)} measured values (one column each)`}`
     : ch.chartType === 'c' ? 'the count' : 'the count and the quantity inspected';
@@ -77,6 +84,7 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
           A history export from Plumbline is read as it is. Nothing is recorded until you confirm.
         </p>
       </div>
+      {ch.safetyCritical ? <SafetyCaution /> : null}
       {!allowed ? (
         <p class="caution" role="alert">Only a quality engineer (or admin) can import history. Ask one to sign in on this tablet.</p>
       ) : (
@@ -87,7 +95,7 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
               <h2 id="import-reading-title">How the file is read</h2>
               <p data-testid="import-layout">
                 {guessed?.layout === 'export' ? 'A Plumbline history export: its columns are read as written.' : 'Check what each column holds.'}
-                {' '}{table.rows.length} row{table.rows.length === 1 ? '' : 's'}, separated by {DELIMITER_NAMES[table.delimiter]}.
+                {' '}{dataRows} data row{dataRows === 1 ? '' : 's'}, separated by {DELIMITER_NAMES[table.delimiter]}.
               </p>
               {notes.notes.map((n) => <p class="hint" key={n}>{n}</p>)}
               {notes.cautions.map((n) => <p class="caution" key={n}>{n}</p>)}
@@ -126,6 +134,9 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
               {issues.map((p) => <p class="error-text" role="alert" key={p}>{p}</p>)}
             </section>
           ) : null}
+          {running && running.total > 0 ? (
+            <p class="hint" role="status" data-testid="import-checking">Checking rows… {running.done} of {running.total}</p>
+          ) : null}
           {checked.length ? (
             <ImportPreview rows={checked} summary={summary} characteristic={ch} separator={separator}
               includeFlagged={includeFlagged} onIncludeFlagged={setIncludeFlagged} />
@@ -144,7 +155,7 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
                 </p>
               ) : null}
               <div class="row">
-                <button type="button" class="btn primary" data-testid="import-confirm" disabled={toRecord === 0 || progress !== null} onClick={() => void record()}>
+                <button type="button" class="btn primary" data-testid="import-confirm" disabled={toRecord === 0 || progress !== null || running !== null} onClick={() => void record()}>
                   {toRecord === 0 ? 'Nothing to record' : `Record ${toRecord} sample${toRecord === 1 ? '' : 's'}`}
                 </button>
                 <button type="button" class="btn" onClick={back}>{outcome ? 'Back to the chart' : 'Cancel'}</button>
