@@ -7,7 +7,7 @@ import { formatShortDateTime } from '../format-time';
 const PAGE = 100;
 
 function measured(s: Sample, ch: Characteristic, separator: ',' | '.'): string {
-  if (s.values) return s.values.map((v) => formatValue(v, ch.decimals, separator)).join('  ');
+  if (s.values) return s.values.map((v) => formatValue(v, ch.decimals, separator)).join(' · ');
   return s.inspected !== undefined ? `${s.count} of ${s.inspected}` : String(s.count);
 }
 
@@ -62,7 +62,7 @@ export function ImportPreview({ rows, summary, characteristic, separator, includ
           <label class="row" style="gap:10px;min-height:48px">
             <input type="checkbox" checked={includeFlagged} style="width:24px;height:24px"
               onChange={(e) => onIncludeFlagged((e.target as HTMLInputElement).checked)} />
-            These {flagged.length} rows are correct: record them too
+            {flagged.length === 1 ? 'This row is correct: record it too' : `These ${flagged.length} rows are correct: record them too`}
           </label>
         </div>
       ) : null}
