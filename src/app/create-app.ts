@@ -570,6 +570,8 @@ export function createPlumblineApp(deps: AppDeps) {
       ...kept,
       ...(patch.values ? { values: patch.values, count: undefined, inspected: undefined } : {}),
       ...patch,
+      // Corrected values were typed here, not read from the file: the import note stays with the original.
+      ...(patch.values || patch.count !== undefined || patch.inspected !== undefined ? { imported: undefined } : {}),
       kind: 'sample', id: deps.newId(), supersedes: original.id,
       recordedBy: state.person!.id, deviceId: identity!.deviceId,
     };

@@ -62,6 +62,19 @@ describe('importSamples()', () => {
     expect((await copiesOnServer()).size).toBe(1200);
   });
 
+  it('a correction of an imported sample is not marked as imported; leaving it out of the limits keeps the mark', async () => {
+    const t = await signedIn('ada', '3456');
+    t.app.actions.open({ name: 'import', characteristicId: 'ch-len' });
+    await t.settle();
+    const [a, b] = samplesFrom(t, fileOf(t, 2));
+    await t.app.actions.importSamples('ch-len', [a!, b!]);
+    expect(await t.app.actions.correct('ch-len', a!.id, { values: [10.2] }, 'Misread the sheet')).toBe(true);
+    expect(await t.app.actions.setExcluded('ch-len', b!.id, true, 'Gauge out of calibration that day')).toBe(true);
+    const all = await getSamplesForCharacteristic(t.db, 'ch-len');
+    expect(all.find((s) => s.supersedes === a!.id)!.imported).toBeUndefined();
+    expect(all.find((s) => s.supersedes === b!.id)!.imported).toEqual(b!.imported);
+  });
+
   it('is refused to an operator, with the reason', async () => {
     const admin = await signedIn('ada', '3456');
     const samples = samplesFrom(admin, fileOf(admin, 3));
