@@ -92,7 +92,8 @@ export function checkImportRows(rows: readonly MappedRow[], ctx: ImportContext):
  */
 export function createRowChecker(ctx: ImportContext): (row: MappedRow) => CheckedRow {
   const ch = ctx.characteristic;
-  const existingIds = new Set(ctx.existing.map((s) => s.id));
+  // The ids on the chart and those they replaced: an export read back after a correction is still known.
+  const existingIds = new Set(ctx.existing.flatMap((s) => (s.supersedes ? [s.id, s.supersedes] : [s.id])));
   const existingReadings = new Map(ctx.existing.map((s) => [sameReading(s), s] as const));
   const seenInFile = new Map<string, number>();
   const variable = isVariableChart(ch.chartType);

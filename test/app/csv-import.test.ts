@@ -4,6 +4,7 @@ import { buildCharacteristicView } from '../../src/app/build-view';
 import { historyToCsv } from '../../src/app/export-csv';
 import { checkImportRows, guessDecimal, readImportNumber, samplesToImport, summarizeImport, typoGuardOf, type ImportContext } from '../../src/app/import-check';
 import { guessMapping, mapRows, mappingProblems, type ColumnMapping } from '../../src/app/import-mapping';
+import { signalsAtImported } from '../../src/app/import-signals';
 import { readCsvTable } from '../../src/app/import-table';
 import { parseImportTime, type LocalTime } from '../../src/app/import-time';
 import { sha256, toHex, uuidFromName } from '../../src/app/sha256';
@@ -132,6 +133,15 @@ describe('round trip with historyToCsv()', () => {
     const exported = historyToCsv(buildCharacteristicView(p, [], samples, [], [], T0), (id) => id);
     const imported = samplesToImport(importText(exported, { ...p, id: 'ch-p2' }).checked, false);
     expect(imported.map((s) => [s.takenAt, s.count, s.inspected, s.values])).toEqual(samples.map((s) => [s.takenAt, s.count, s.inspected, undefined]));
+  });
+
+  it('knows an exported sample that was corrected after the export', () => {
+    const ch = makeCharacteristic();
+    const samples = individuals(BASELINE.slice(0, 3));
+    const exported = historyToCsv(buildCharacteristicView(ch, [], samples, [], [], T0), (id) => id);
+    const corrected = { ...samples[1]!, id: '0190a000-0000-7000-8000-000000000001', values: [10.3], supersedes: samples[1]!.id, reason: 'Misread' };
+    const { checked } = importText(exported, ch, { existing: [samples[0]!, corrected, samples[2]!] });
+    expect(checked.map((r) => r.status)).toEqual(['already', 'already', 'already']);
   });
 
   it('finds every row of the same export already on its own chart', () => {
@@ -296,5 +306,17 @@ describe('stable ids', () => {
 
   it('validates every built sample with the record schema', () => {
     for (const s of samplesToImport(importText(file, ch).checked, true)) expect(Sample.safeParse(s).success).toBe(true);
+  });
+});
+
+describe('signalsAtImported()', () => {
+  it('counts the signals that would begin at imported points, not at points already there', () => {
+    const ch = makeCharacteristic();
+    const existing = individuals(BASELINE);
+    // A point far beyond the 3-sigma limit fires Western Electric rule 1 (Western Electric, Statistical Quality Control Handbook, 1956).
+    const imported = [sampleAt(20 * 60, { values: [11] }), sampleAt(21 * 60, { values: [10] })];
+    expect(signalsAtImported(ch, [], existing, imported)).toBe(1);
+    expect(signalsAtImported(ch, [], existing, imported.slice(1))).toBe(0);
+    expect(signalsAtImported(ch, [], [...existing, imported[0]!], imported.slice(1))).toBe(0);
   });
 });

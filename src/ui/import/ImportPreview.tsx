@@ -31,9 +31,11 @@ function RowList({ rows, testId }: { rows: readonly CheckedRow[]; testId: string
 }
 
 /** What the import will do: totals, the rows that cannot be imported and why, flagged rows, and the samples as they will be recorded. */
-export function ImportPreview({ rows, summary, characteristic, separator, includeFlagged, onIncludeFlagged }: {
+export function ImportPreview({ rows, summary, characteristic, separator, includeFlagged, onIncludeFlagged, firing }: {
   rows: readonly CheckedRow[]; summary: ImportSummary; characteristic: Characteristic; separator: ',' | '.';
   includeFlagged: boolean; onIncludeFlagged: (v: boolean) => void;
+  /** Signals that would begin at the imported points. */
+  firing: number;
 }) {
   const problems = rows.filter((r) => r.status === 'problem');
   const flagged = rows.filter((r) => r.status === 'check');
@@ -73,6 +75,11 @@ export function ImportPreview({ rows, summary, characteristic, separator, includ
           </summary>
           <RowList rows={already} testId="already-rows" />
         </details>
+      ) : null}
+      {firing > 0 ? (
+        <p class="caution" data-testid="import-signals">
+          The chart signals at {firing} of the imported point{firing === 1 ? '' : 's'}: each will show as a signal to answer and sign off, like any other.
+        </p>
       ) : null}
       {toRecord.length ? (
         <div class="stack" style="gap:8px">

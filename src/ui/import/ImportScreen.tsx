@@ -1,6 +1,7 @@
 import { useMemo, useState } from 'preact/hooks';
 import type { AppActions, AppState, ImportOutcome } from '../../app/app-state';
 import { guessDecimal, samplesToImport, summarizeImport, typoGuardOf, type ImportContext } from '../../app/import-check';
+import { signalsAtImported } from '../../app/import-signals';
 import { exportNotes, guessMapping, mappingProblems, mapRows, valuesPerSubgroup, type ColumnMapping } from '../../app/import-mapping';
 import { readCsvTable, type CsvDelimiter } from '../../app/import-table';
 import type { DateOrder } from '../../app/import-time';
@@ -48,6 +49,8 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
   const { rows: checkedRows, running } = useCheckedRows(mapped, ctx);
   const checked = ctx ? checkedRows ?? [] : [];
   const summary = summarizeImport(checked);
+  const firing = useMemo(() => (ch && checked.length
+    ? signalsAtImported(ch, state.setup.phases, existing, samplesToImport(checked, includeFlagged)) : 0), [checked, includeFlagged]);
 
   if (!ch) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
   const back = () => actions.open({ name: 'characteristic', characteristicId });
@@ -139,7 +142,7 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
           ) : null}
           {checked.length ? (
             <ImportPreview rows={checked} summary={summary} characteristic={ch} separator={separator}
-              includeFlagged={includeFlagged} onIncludeFlagged={setIncludeFlagged} />
+              includeFlagged={includeFlagged} onIncludeFlagged={setIncludeFlagged} firing={firing} />
           ) : null}
           {source && !issues.length ? (
             <section class="card stack" aria-label="Record the samples">
