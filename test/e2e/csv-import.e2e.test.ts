@@ -93,6 +93,7 @@ describe.skipIf(!run)('history import', () => {
     await page.getByRole('button', { name: 'Back to the chart' }).click();
     await page.getByTestId('main-chart').locator('canvas').first().waitFor();
     await expect.poll(() => pointCount(page)).toBe(before + 4);
+    await page.screenshot({ path: join(SHOTS, 'import-chart-after-1280x800.png') });
 
     await syncNow(page);
     const onServer = await importedOnServer(site, 'bonnet-torque');

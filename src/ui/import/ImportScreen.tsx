@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'preact/hooks';
+import { useEffect, useMemo, useState } from 'preact/hooks';
 import type { AppActions, AppState, ImportOutcome } from '../../app/app-state';
 import { guessDecimal, samplesToImport, summarizeImport, typoGuardOf, type ImportContext } from '../../app/import-check';
 import { signalsAtImported } from '../../app/import-signals';
@@ -28,6 +28,7 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
   const [includeFlagged, setIncludeFlagged] = useState(false);
   const [progress, setProgress] = useState<{ done: number; total: number } | null>(null);
   const [outcome, setOutcome] = useState<ImportOutcome | null>(null);
+  useEffect(() => window.scrollTo(0, 0), []);
 
   const table = useMemo(() => (source ? readCsvTable(source.text, delimiter === 'auto' ? undefined : delimiter) : null), [source, delimiter]);
   const guessed = useMemo(() => (table && ch ? guessMapping(table, ch) : null), [table, ch]);
@@ -53,7 +54,10 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
     ? signalsAtImported(ch, state.setup.phases, existing, samplesToImport(checked, includeFlagged)) : 0), [checked, includeFlagged]);
 
   if (!ch) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
-  const back = () => actions.open({ name: 'characteristic', characteristicId });
+  const back = () => {
+    window.scrollTo(0, 0); // the chart is at the top of the screen we go back to
+    actions.open({ name: 'characteristic', characteristicId });
+  };
   const allowed = state.person?.role === 'engineer' || state.person?.role === 'admin';
   const notes = table ? exportNotes(table, ch) : { notes: [], cautions: [] };
   const toRecord = summary.ready + (includeFlagged ? summary.check : 0);
