@@ -9,10 +9,9 @@ import { isVariableChart } from '../../schema';
 import { ColumnMappingPanel } from './ColumnMappingPanel';
 import { ImportPreview } from './ImportPreview';
 import { ImportSource } from './ImportSource';
+import { DELIMITER_NAMES, ReadingOptions } from './ReadingOptions';
 import { SafetyCaution } from '../SafetyCaution';
 import { useCheckedRows } from './use-checked-rows';
-
-const DELIMITER_NAMES: Record<CsvDelimiter, string> = { ',': 'comma', ';': 'semicolon', '\t': 'tab' };
 
 /** CSV import of a characteristic's history: read, map, check, preview, and record only on confirmation. */
 export function ImportScreen({ state, actions, characteristicId, separator }: {
@@ -107,31 +106,8 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
               {notes.notes.map((n) => <p class="hint" key={n}>{n}</p>)}
               {notes.cautions.map((n) => <p class="caution" key={n}>{n}</p>)}
               {table.problems.map((p) => <p class="caution" key={p.line}>{p.message}</p>)}
-              <div class="import-options">
-                <label class="entry-field">
-                  <span class="hint">Fields separated by</span>
-                  <select class="text-input" value={delimiter} onChange={(e) => { setDelimiter((e.target as HTMLSelectElement).value as CsvDelimiter | 'auto'); setMappingChoice(null); }}>
-                    <option value="auto">Detect ({DELIMITER_NAMES[table.delimiter]})</option>
-                    <option value=",">Comma</option>
-                    <option value=";">Semicolon</option>
-                    <option value={'\t'}>Tab</option>
-                  </select>
-                </label>
-                <label class="entry-field">
-                  <span class="hint">Decimal mark in the numbers</span>
-                  <select class="text-input" value={decimal} data-testid="decimal-mark" onChange={(e) => setDecimalChoice((e.target as HTMLSelectElement).value as ',' | '.')}>
-                    <option value=".">Point (10.25)</option>
-                    <option value=",">Comma (10,25)</option>
-                  </select>
-                </label>
-                <label class="entry-field">
-                  <span class="hint">Dates written with slashes</span>
-                  <select class="text-input" value={dateOrder} onChange={(e) => setDateOrder((e.target as HTMLSelectElement).value as DateOrder)}>
-                    <option value="dmy">Day first (31/12/2026)</option>
-                    <option value="mdy">Month first (12/31/2026)</option>
-                  </select>
-                </label>
-              </div>
+              <ReadingOptions detected={table.delimiter} delimiter={delimiter} decimal={decimal} dateOrder={dateOrder}
+                onDelimiter={(d) => { setDelimiter(d); setMappingChoice(null); }} onDecimal={setDecimalChoice} onDateOrder={setDateOrder} />
               {guessed?.layout === 'export' ? (
                 <details>
                   <summary class="hint" style="min-height:48px;display:flex;align-items:center;cursor:pointer">Show the columns</summary>
