@@ -40,6 +40,8 @@ export interface ImportContext {
 
 /** A timestamp may run ahead of the tablet clock by this much before it counts as "in the future". */
 export const FUTURE_TOLERANCE_MS = 5 * 60_000;
+/** Earlier timestamps are taken for a slip in the year (2062 typed as 1062): our choice, far before any tablet record. */
+export const EARLIEST_MS = Date.UTC(1990, 0, 1);
 
 type Parsed = { ok: true; value: number } | { ok: false; message: string };
 
@@ -124,6 +126,8 @@ export function createRowChecker(ctx: ImportContext): (row: MappedRow) => Checke
     }
     if (takenMs !== undefined && takenMs > ctx.now + FUTURE_TOLERANCE_MS) {
       problems.push(`${new Date(takenMs).toISOString().slice(0, 16).replace('T', ' ')} UTC lies in the future.`);
+    } else if (takenMs !== undefined && takenMs < EARLIEST_MS) {
+      problems.push(`${new Date(takenMs).toISOString().slice(0, 10)} is before ${new Date(EARLIEST_MS).getUTCFullYear()}: check the year.`);
     }
 
     // What was measured or counted.

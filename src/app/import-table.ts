@@ -72,3 +72,20 @@ export function detectDelimiter(text: string): CsvDelimiter {
   }
   return best.d;
 }
+
+export type TextEncodingName = 'UTF-8' | 'UTF-16' | 'Windows-1252';
+
+/**
+ * A file's bytes as text: UTF-16 when it starts with a UTF-16 byte order mark (a spreadsheet's "Unicode
+ * text"), UTF-8 when the bytes are valid UTF-8, else Windows-1252 (what older spreadsheets on Windows
+ * write, so "µm" and "Prüfer" come out right instead of as replacement characters).
+ */
+export function decodeCsvBytes(bytes: Uint8Array): { text: string; encoding: TextEncodingName } {
+  if (bytes[0] === 0xff && bytes[1] === 0xfe) return { text: new TextDecoder('utf-16le').decode(bytes), encoding: 'UTF-16' };
+  if (bytes[0] === 0xfe && bytes[1] === 0xff) return { text: new TextDecoder('utf-16be').decode(bytes), encoding: 'UTF-16' };
+  try {
+    return { text: new TextDecoder('utf-8', { fatal: true }).decode(bytes), encoding: 'UTF-8' };
+  } catch {
+    return { text: new TextDecoder('windows-1252').decode(bytes), encoding: 'Windows-1252' };
+  }
+}

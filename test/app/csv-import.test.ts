@@ -5,7 +5,7 @@ import { historyToCsv } from '../../src/app/export-csv';
 import { checkImportRows, guessDecimal, readImportNumber, samplesToImport, summarizeImport, typoGuardOf, type ImportContext } from '../../src/app/import-check';
 import { guessMapping, mapRows, mappingProblems, type ColumnMapping } from '../../src/app/import-mapping';
 import { signalsAtImported } from '../../src/app/import-signals';
-import { readCsvTable } from '../../src/app/import-table';
+import { decodeCsvBytes, readCsvTable } from '../../src/app/import-table';
 import { parseImportTime, type LocalTime } from '../../src/app/import-time';
 import { sha256, toHex, uuidFromName } from '../../src/app/sha256';
 import { Sample, type Characteristic } from '../../src/schema';
@@ -73,6 +73,17 @@ describe('readCsvTable()', () => {
     const bad = readCsvTable('time,value\n2026-12-01 08:00,"10.1\n');
     expect(bad.problems).toHaveLength(1);
     expect(bad.problems[0]!.line).toBe(2);
+  });
+});
+
+describe('decodeCsvBytes()', () => {
+  it('reads UTF-8, falls back to Windows-1252 for bytes that are not UTF-8, and honours a UTF-16 byte order mark', () => {
+    const text = 'Messwert;Prüfer;µm\n';
+    expect(decodeCsvBytes(new TextEncoder().encode(text))).toEqual({ text, encoding: 'UTF-8' });
+    // source: Windows-1252 code chart (ü = 0xFC, µ = 0xB5), as written by Node's 'latin1' encoding for these characters
+    expect(decodeCsvBytes(new Uint8Array(Buffer.from(text, 'latin1')))).toEqual({ text, encoding: 'Windows-1252' });
+    const utf16 = new Uint8Array([0xff, 0xfe, ...Buffer.from(text, 'utf16le')]);
+    expect(decodeCsvBytes(utf16)).toEqual({ text, encoding: 'UTF-16' });
   });
 });
 
@@ -210,10 +221,11 @@ describe('row problems', () => {
       `${at(3)},,,`, // 9 value missing
       `2026-12-01,10.00,,`, // 10 a date without a time
       `${at(4)},10.0,${'L'.repeat(61)},`, // 11 lot too long
+      `1026-12-01 08:00,10.00,,`, // 12 a slip in the year
     ];
     const { checked } = importText(lines.join('\n'), ch, { existing });
     const byLine = new Map(checked.map((r) => [r.line, r]));
-    expect(checked.map((r) => r.line)).toEqual([2, 3, 4, 5, 6, 7, 8, 9, 10, 11]);
+    expect(checked.map((r) => r.line)).toEqual([2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12]);
     expect(byLine.get(2)!.status).toBe('ready');
     const problem = (line: number) => { const r = byLine.get(line)!; expect(r.status, `line ${line}`).not.toBe('ready'); return r.problems.join(' '); };
     expect(problem(3)).toMatch(/“ten” is not a number/);
@@ -225,6 +237,7 @@ describe('row problems', () => {
     expect(problem(9)).toMatch(/value is missing/);
     expect(problem(10)).toMatch(/date but no time/);
     expect(problem(11)).toMatch(/lot has 61 characters/);
+    expect(problem(12)).toBe('1026-12-01 is before 1990: check the year.');
   });
 
   it('counts the values against the subgroup size', () => {

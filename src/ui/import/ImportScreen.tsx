@@ -103,6 +103,7 @@ export function ImportScreen({ state, actions, characteristicId, separator }: {
                 {guessed?.layout === 'export' ? 'A Plumbline history export: its columns are read as written.' : 'Check what each column holds.'}
                 {' '}{dataRows} data row{dataRows === 1 ? '' : 's'}, separated by {DELIMITER_NAMES[table.delimiter]}.
               </p>
+              {dataRows <= 0 ? <p class="error-text" role="alert">The {source?.name === 'pasted text' ? 'pasted text' : 'file'} holds no rows of data.</p> : null}
               {notes.notes.map((n) => <p class="hint" key={n}>{n}</p>)}
               {notes.cautions.map((n) => <p class="caution" key={n}>{n}</p>)}
               {table.problems.map((p) => <p class="caution" key={p.line}>{p.message}</p>)}

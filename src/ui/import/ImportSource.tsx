@@ -1,15 +1,19 @@
 import { useState } from 'preact/hooks';
+import { decodeCsvBytes, type TextEncodingName } from '../../app/import-table';
 
 /** Where the rows come from: a CSV file picked on the tablet, or text pasted from a spreadsheet. */
 export function ImportSource({ onRead, current }: { onRead: (text: string, name: string) => void; current: string | undefined }) {
   const [pasted, setPasted] = useState('');
   const [problem, setProblem] = useState<string | null>(null);
+  const [encoding, setEncoding] = useState<TextEncodingName | null>(null);
   const pick = async (input: HTMLInputElement) => {
     const file = input.files?.[0];
     if (!file) return;
     try {
       setProblem(null);
-      onRead(await file.text(), file.name);
+      const read = decodeCsvBytes(new Uint8Array(await file.arrayBuffer()));
+      setEncoding(read.encoding);
+      onRead(read.text, file.name);
     } catch (e) {
       setProblem(`The file could not be read: ${e instanceof Error ? e.message : String(e)}`);
     }
@@ -29,12 +33,16 @@ export function ImportSource({ onRead, current }: { onRead: (text: string, name:
             <textarea class="text-input" value={pasted} data-testid="import-paste" rows={4}
               onInput={(e) => setPasted((e.target as HTMLTextAreaElement).value)} />
           </label>
-          <button type="button" class="btn small" style="align-self:flex-start" disabled={!pasted.trim()} onClick={() => onRead(pasted, 'pasted text')}>
+          <button type="button" class="btn small" style="align-self:flex-start" disabled={!pasted.trim()} onClick={() => { setEncoding(null); onRead(pasted, 'pasted text'); }}>
             Read the pasted rows
           </button>
         </div>
       </div>
-      {current ? <p class="hint" data-testid="import-current">Reading: {current}</p> : null}
+      {current ? (
+        <p class="hint" data-testid="import-current">
+          Reading: {current}{encoding && encoding !== 'UTF-8' ? ` (characters read as ${encoding})` : ''}
+        </p>
+      ) : null}
       {problem ? <p class="error-text" role="alert">{problem}</p> : null}
     </section>
   );
