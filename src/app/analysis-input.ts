@@ -66,7 +66,7 @@ export function buildChartSeries(ch: Characteristic, phases: readonly Phase[], c
       phaseInputs.pop(); // an empty phase is superseded by the later one
       phaseIds.pop();
     }
-    phaseInputs.push(p.given ? { start, given: p.given } : { start, baselineCount: ch.baselineSize });
+    phaseInputs.push(p.given ? { start, given: p.given } : { start, baselineCount: p.baselineCount ?? ch.baselineSize });
     phaseIds.push(p.id);
   }
   if (phaseInputs.length === 0) phaseInputs.push({ start: 0, baselineCount: ch.baselineSize });

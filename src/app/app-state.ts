@@ -1,5 +1,5 @@
 import type { Analysis, Signal } from '../engine/types';
-import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, Sample, Site, Station } from '../schema';
+import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, Sample, SetupRecord, Site, Station } from '../schema';
 import type { ChartSeries } from './analysis-input';
 import type { DueStatus } from './due-state';
 import type { SignalGroup } from './signal-state';
@@ -64,6 +64,13 @@ export type Screen =
   | { readonly name: 'overview' }
   | { readonly name: 'handover' }
   | { readonly name: 'characteristic'; readonly characteristicId: string }
+  /** Set-up (engineer, admin): lines, stations and their characteristics. */
+  | { readonly name: 'setup' }
+  /** The characteristic editor: an existing one, or a new one at a station. */
+  | { readonly name: 'edit-characteristic'; readonly characteristicId?: string; readonly stationId?: string }
+  /** A new phase; `fromSampleId` preselects the point it starts at (chosen on the chart). */
+  | { readonly name: 'new-phase'; readonly characteristicId: string; readonly fromSampleId?: string }
+  | { readonly name: 'limits-history'; readonly characteristicId: string }
   /** CSV import of a characteristic's history (engineer and admin only). */
   | { readonly name: 'import'; readonly characteristicId: string };
 
@@ -127,6 +134,12 @@ export interface AppActions {
   correct(characteristicId: string, sampleId: string, entry: EntryInput, reason: string): Promise<boolean>;
   /** Leave a point out of (or back in) the limit calculation: engineer only, with a reason. */
   setExcluded(characteristicId: string, sampleId: string, excluded: boolean, reason: string): Promise<boolean>;
+  /**
+   * Sends set-up changes to the site server (engineer: lines, stations, characteristics, phases, causes;
+   * admin: also people and the site). Needs a connection and a sign-in made online; `what` names the
+   * change in messages. Once stored, the tablet pulls the new set-up.
+   */
+  saveSetup(entries: readonly SetupRecord[], what: string): Promise<boolean>;
   /**
    * Records checked import samples (engineer and admin only) in batches, each batch in one transaction with
    * its outbox rows; `onProgress` after each batch. Null when nothing could be saved (state.error says why).

@@ -1,4 +1,4 @@
-import type { Acknowledgement, DeviceRecord, Person, Response, Sample } from '../schema';
+import { SetupRecord, describeIssues, type Acknowledgement, type DeviceRecord, type Person, type Response, type Sample } from '../schema';
 import {
   getAcksForCharacteristic,
   getSamplesForCharacteristic,
@@ -97,6 +97,9 @@ function syncView(s: SyncStatus): SyncView {
     ...(s.clockOffsetMs !== null ? { clockOffsetMs: s.clockOffsetMs, clockSkewed: s.isClockSkewed } : {}),
   };
 }
+
+/** Where a person's server session token is kept for this tab (set-up changes need it). */
+const sessionKey = (personId: string) => `plumbline.session.${personId}`;
 
 function messageOf(e: unknown): string {
   return e instanceof Error ? e.message : String(e);
@@ -320,6 +323,7 @@ export function createPlumblineApp(deps: AppDeps) {
       if (!identity) return false;
       try {
         const res = await api.signIn(identity.deviceToken, { login, pin });
+        deps.session.setItem(sessionKey(res.person.id), res.sessionToken);
         await saveSignedInPerson(db, {
           personId: res.person.id, login: res.person.login, name: res.person.name, role: res.person.role,
           offlineVerifier: res.offlineVerifier, signedInAt: deps.now(),
@@ -350,6 +354,7 @@ export function createPlumblineApp(deps: AppDeps) {
 
     signOut() {
       deps.session.removeItem('plumbline.person');
+      if (state.person) deps.session.removeItem(sessionKey(state.person.id));
       set({ stage: 'sign-in', person: undefined, prompt: undefined, error: undefined });
     },
     addPerson() {
@@ -362,7 +367,7 @@ export function createPlumblineApp(deps: AppDeps) {
     },
     open(screen: Screen) {
       set({ screen, error: undefined });
-      if (screen.name === 'characteristic' || screen.name === 'import') void refreshViews([screen.characteristicId]);
+      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history' || screen.name === 'import') void refreshViews([screen.characteristicId]);
       else if (screen.name === 'overview' || screen.name === 'handover') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else void refreshViews();
     },
@@ -501,6 +506,10 @@ export function createPlumblineApp(deps: AppDeps) {
       return saveSupersedingSample(characteristicId, original, { excluded, reason: reason.trim() }, excluded ? 'exclusion' : 'inclusion');
     },
 
+    async saveSetup(entries, what) {
+      return sendSetup(entries, what);
+    },
+
     async importSamples(characteristicId, samples, onProgress) {
       if (!identity || !state.person) return null;
       if (!ENGINEERING.includes(state.person.role)) {
@@ -562,6 +571,53 @@ export function createPlumblineApp(deps: AppDeps) {
       set({ toast: undefined });
     },
   };
+
+  /** See AppActions.saveSetup: checked here, sent to the server, then pulled back like any set-up. */
+  async function sendSetup(entries: readonly SetupRecord[], what: string): Promise<boolean> {
+    if (!identity || !state.person) return false;
+    const notSent = `${what} was NOT saved`;
+    if (!ENGINEERING.includes(state.person.role)) {
+      set({ error: `${notSent}: only a quality engineer or an admin can change set-up.` });
+      return false;
+    }
+    for (const entry of entries) {
+      const parsed = SetupRecord.safeParse(entry);
+      if (!parsed.success) {
+        set({ error: `${notSent}: ${describeIssues(parsed.error)}` });
+        return false;
+      }
+    }
+    const session = deps.session.getItem(sessionKey(state.person.id));
+    if (!session || !api.postSetup) {
+      set({ error: `${notSent}: set-up changes need a sign-in made while connected to the site server. Sign in again with a connection; the form keeps what you typed.` });
+      return false;
+    }
+    try {
+      await api.postSetup(identity.deviceToken, session, entries);
+    } catch (e) {
+      const code = e instanceof ApiError ? e.code : undefined;
+      if (code === 'offline' || code === 'server') {
+        set({ error: `${notSent}: set-up changes need a connection to the site server, and it cannot be reached now. Nothing was sent; the form keeps what you typed — save again once connected.` });
+      } else if (code === 'unauthorized') {
+        set({ error: `${notSent}: ${messageOf(e)} Sign in again while connected; the form keeps what you typed.` });
+      } else {
+        set({ error: `${notSent}: ${messageOf(e)}` });
+      }
+      return false;
+    }
+    set({ error: undefined });
+    // The server holds it now; pull it back so this tablet (and its chart) use the new set-up at once.
+    await sync?.syncNow({ ignoreBackoff: true });
+    await reloadSetup();
+    const touched = new Set<string>();
+    for (const e of entries) {
+      if (e.kind === 'characteristic') touched.add(e.body.id);
+      if (e.kind === 'phase') touched.add(e.body.characteristicId);
+    }
+    await refreshViews([...new Set([...touched, ...state.setup.characteristics.filter((c) => c.stationId === state.stationId).map((c) => c.id)])]);
+    toast(`${what} saved on the site server`);
+    return true;
+  }
 
   /** Writes a new sample that takes `original`'s place (same time), carrying over what `patch` does not change. */
   async function saveSupersedingSample(characteristicId: string, original: Sample, patch: Partial<Sample>, what: string): Promise<boolean> {

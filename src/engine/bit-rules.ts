@@ -1,7 +1,8 @@
 /**
  * Batch run-rule detection, 32 points per machine word, in one pass over the values with no
  * allocation except the signals. Each zone test (above the centre, beyond ±1/2/3σ, up or down
- * from the previous point) sets one bit per point in a word; "n in a row" is an AND of shifted
+ * from the previous point) sets one bit per point in a word (two points per instruction in the
+ * WebAssembly SIMD kernel of zone-kernel.ts where the JavaScript engine has one); "n in a row" is an AND of shifted
  * copies, "2 of 3" and "4 of 5" are small boolean formulas on shifted copies. A shift reaches
  * back at most 15 points, so every formula needs only the current word and the one before it,
  * which each quantity carries from word to word. Only where some rule fires are the signals
@@ -18,6 +19,7 @@
 import { explainCompanion, explainRule } from './rule-text';
 import type { RuleSet } from './rule-signals';
 import type { RuleCode, Signal } from './types';
+import { WORDS_PER_BLOCK, zoneKernel } from './zone-kernel';
 
 /** Points of history a rule window can reach back (15 in a row, plus one for the first difference). */
 export const CONTEXT = 16;
@@ -58,11 +60,7 @@ export function detectBatch(values: Float64Array, contextStart: number, from: nu
   const rTurn = set.n4 ? -1 : 0;
   const rIn = set.n7 ? -1 : 0;
   const rOut = set.n8 ? -1 : 0;
-  classify(values, contextStart, n, centre, sigma, companion, r1, pl);
-  if (r8 | r9) sameSideRuns(pl, W, r8, r9);
-  if (rTrend | rTurn) trends(pl, W, rTrend, rTurn);
-  if (r23 | r45) zoneWindows(pl, W, r23, r45);
-  if (rIn | rOut) insideOutside(pl, W, rIn, rOut);
+  classify(values, contextStart, n, centre, sigma, companion, r1, r23, r45, r8, r9, rTrend, rTurn, rIn, rOut, pl);
   const F = pl.F;
   const firstJ = from - contextStart; // bits below this never fire
   // Bits past the last point and before `from` never fire.
@@ -133,17 +131,14 @@ function buildSignals(
 
 /** One word per 32 points for each zone test, the rule patterns, and which points fire. */
 interface Planes {
-  // From the values: above the centre (z > 0), beyond ±1σ, above the previous value, beyond ±3σ,
-  // companion spread beyond its limits. (Beyond ±2σ, on the centre and level with the previous
-  // value are used within the classification only: kept in the planes derived from them.)
+  // From the values: above the centre (z > 0), above the previous value, beyond ±3σ, companion
+  // spread beyond its limits. (Beyond ±1σ and ±2σ, on the centre, below it, down from and level
+  // with the previous value are used within the classification only.)
   readonly P: Int32Array;
-  readonly O1: Int32Array;
   readonly UP: Int32Array;
   readonly X3: Int32Array;
   readonly CF: Int32Array;
-  // Derived: below the centre, down from the previous value, beyond +1σ, −1σ, +2σ, −2σ.
-  readonly M: Int32Array;
-  readonly DN: Int32Array;
+  // Derived: beyond +1σ, −1σ, +2σ, −2σ.
   readonly U1: Int32Array;
   readonly D1: Int32Array;
   readonly U2: Int32Array;
@@ -172,17 +167,23 @@ function scratch(W: number): Planes {
     const a = (): Int32Array => new Int32Array(size);
     // A literal keeps the object's shape fixed (fast property access in the loops).
     planesCache = {
-      P: a(), O1: a(), UP: a(), X3: a(), CF: a(), M: a(), DN: a(), U1: a(), D1: a(), U2: a(), D2: a(),
+      P: a(), UP: a(), X3: a(), CF: a(), U1: a(), D1: a(), U2: a(), D2: a(),
       F23: a(), F45: a(), S8: a(), S9: a(), TREND: a(), TURN: a(), IN: a(), OUT: a(), F: a(),
     };
   }
   return planesCache;
 }
 
-// The one loop over the points. The comparisons that come out either way on noisy data become
-// bits without a branch; the rare cases (beyond ±3σ, on the centre, level with the previous
-// value, a companion signal) are marked in one word and sorted out afterwards.
-function classify(values: Float64Array, cs: number, n: number, centre: number, sigma: number, companion: CompanionCheck | undefined, r1: number, pl: Planes): void {
+// The one loop over the points, 32 at a time: the zone tests, then every selected rule's pattern
+// on those 32 points (each pattern carries its words of the previous 32 points), so the zone
+// words are used while they are in registers. The comparisons that come out either way on noisy
+// data become bits without a branch (in the SIMD kernel of zone-kernel.ts where there is one,
+// else in JavaScript); the rare cases (beyond ±3σ, on the centre, level with the previous value,
+// a companion signal) are marked in one word and sorted out afterwards.
+function classify(
+  values: Float64Array, cs: number, n: number, centre: number, sigma: number, companion: CompanionCheck | undefined,
+  r1: number, r23: number, r45: number, r8: number, r9: number, rTrend: number, rTurn: number, rIn: number, rOut: number, pl: Planes,
+): void {
   const a0 = zoneBound(sigma, 0);
   const a1 = zoneBound(sigma, 1);
   const a2 = zoneBound(sigma, 2);
@@ -201,14 +202,31 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
   const zHalf = Math.min(zMid - a0, a3 - zMid);
   const mLimit = movingRange ? cUcl : 1e6 * sigma;
   const mMid = mLimit > 0 && mLimit < Infinity ? mLimit / 2 : Infinity; // Infinity: every point to the exact tests
-  const { P, O1, UP, X3, CF, M, DN, U1, D1, U2, D2, F } = pl;
+  const { P, UP, X3, CF, U1, D1, U2, D2, F, S8, S9, TREND, TURN, F23, F45, IN, OUT } = pl;
   const W = (n + 31) >>> 5;
+  const same = r8 | r9, moves = rTrend | rTurn, windows = r23 | r45, band = rIn | rOut;
+  // Each pattern's words of the previous 32 points.
+  let pP = 0, pP2 = 0, pP4 = 0, pM = 0, pM2 = 0, pM4 = 0;
+  let pU = 0, pU2 = 0, pD = 0, pD2 = 0, pT = 0, pT2 = 0, pT4 = 0;
+  let pu1 = 0, pd1 = 0, pu2 = 0, pd2 = 0;
+  let pI = 0, pI2 = 0, pI4 = 0, pI8 = 0, pO = 0, pO2 = 0, pO4 = 0, pA = 0, pA2 = 0, pA4 = 0, pB = 0, pB2 = 0, pB4 = 0;
   let prev = values[cs]!; // the first point has no previous one: level
+  // The zone words of the moving-range case from the SIMD kernel where there is one (zone-kernel.ts).
+  const kernel = spreadColumn === null ? zoneKernel(n) : null;
+  const raw = kernel ? kernel.run(values, cs, n, centre, a0, a1, a2, zMid, zHalf, mMid) : null;
   for (let w = 0; w < W; w++) {
     const base = cs + (w << 5);
     const end = Math.min(32, n - (w << 5));
     let p = 0, o1 = 0, up = 0, x2 = 0, rare = 0;
-    if (spreadColumn === null) {
+    if (raw !== null) {
+      const k = w * WORDS_PER_BLOCK;
+      const valid = end === 32 ? -1 : (1 << end) - 1; // the kernel's bits past the last point are not zero
+      p = raw[k]! & valid;
+      o1 = raw[k + 1]! & valid;
+      up = raw[k + 2]! & valid;
+      x2 = raw[k + 3]! & valid;
+      rare = raw[k + 4]! & valid;
+    } else if (spreadColumn === null) {
       // From the newest point of the word back, so each flag shifts in at bit 0.
       let i = base + end - 1;
       if ((end & 1) === 1) {
@@ -275,88 +293,63 @@ function classify(values: Float64Array, cs: number, n: number, centre: number, s
       cf |= bit(s > cUcl || s < cLcl) << b;
     }
     const m = ~p & ~z; // below: neither above nor on the centre (bits past the last point are never read)
-    P[w] = p; O1[w] = o1; UP[w] = up; X3[w] = x3; CF[w] = cf;
-    F[w] = cf | (r1 & x3);
-    M[w] = m;
-    DN[w] = ~up & ~e;
-    U1[w] = o1 & p;
-    D1[w] = o1 & m;
-    U2[w] = x2 & p;
-    D2[w] = x2 & m;
-  }
-}
-
-// 8 and 9 in a row on one side (doubling: runs of 2, 4, 8).
-function sameSideRuns(pl: Planes, W: number, r8: number, r9: number): void {
-  const { P, M, S8, S9, F } = pl;
-  let pP = 0, pP2 = 0, pP4 = 0, pM = 0, pM2 = 0, pM4 = 0;
-  for (let w = 0; w < W; w++) {
-    const p = P[w]!, m = M[w]!;
-    const P2 = p & sh(p, pP, 1), P4 = P2 & sh(P2, pP2, 2), p8 = P4 & sh(P4, pP4, 4);
-    const M2 = m & sh(m, pM, 1), M4 = M2 & sh(M2, pM2, 2), m8 = M4 & sh(M4, pM4, 4);
-    const p9 = p8 & sh(p, pP, 8), m9 = m8 & sh(m, pM, 8);
-    const s8 = p8 | m8, s9 = p9 | m9;
-    S8[w] = s8;
-    S9[w] = s9;
-    F[w]! |= (r8 & s8) | (r9 & s9);
-    pP = p; pP2 = P2; pP4 = P4; pM = m; pM2 = M2; pM4 = M4;
-  }
-}
-
-// 6 in a row rising or falling (5 moves one way) and 14 alternating (13 turns in a row).
-function trends(pl: Planes, W: number, rTrend: number, rTurn: number): void {
-  const { UP, DN, TREND, TURN, F } = pl;
-  let pU = 0, pU2 = 0, pD = 0, pD2 = 0, pT = 0, pT2 = 0, pT4 = 0;
-  for (let w = 0; w < W; w++) {
-    const up = UP[w]!, dn = DN[w]!;
-    const U2 = up & sh(up, pU, 1), U4 = U2 & sh(U2, pU2, 2);
-    const D2 = dn & sh(dn, pD, 1), D4 = D2 & sh(D2, pD2, 2);
-    const rise = U4 & sh(up, pU, 4), fall = D4 & sh(dn, pD, 4);
-    const trend = rise | fall;
-    TREND[w] = trend;
-    // A turn: this move and the previous one are both moves and opposite.
-    const t = (up & sh(dn, pD, 1)) | (dn & sh(up, pU, 1));
-    const T2 = t & sh(t, pT, 1), T4 = T2 & sh(T2, pT2, 2), T8 = T4 & sh(T4, pT4, 4);
-    const turn = T8 & sh(T4, pT4, 8);
-    TURN[w] = turn;
-    F[w]! |= (rTrend & trend) | (rTurn & turn);
-    pU = up; pU2 = U2; pD = dn; pD2 = D2; pT = t; pT2 = T2; pT4 = T4;
-  }
-}
-
-// 2 of 3 beyond 2σ and 4 of 5 beyond 1σ on one side, the newest point among them.
-function zoneWindows(pl: Planes, W: number, r23: number, r45: number): void {
-  const { U1, D1, U2, D2, F23, F45, F } = pl;
-  let pu1 = 0, pd1 = 0, pu2 = 0, pd2 = 0;
-  for (let w = 0; w < W; w++) {
-    const u1 = U1[w]!, d1 = D1[w]!, u2 = U2[w]!, d2 = D2[w]!;
-    const f23u = u2 & (sh(u2, pu2, 1) | sh(u2, pu2, 2)), f23d = d2 & (sh(d2, pd2, 1) | sh(d2, pd2, 2));
-    const f45u = fourOfFiveOf(u1, pu1), f45d = fourOfFiveOf(d1, pd1);
-    const f23 = f23u | f23d, f45 = f45u | f45d;
-    F23[w] = f23;
-    F45[w] = f45;
-    F[w]! |= (r23 & f23) | (r45 & f45);
-    pu1 = u1; pd1 = d1; pu2 = u2; pd2 = d2;
-  }
-}
-
-// 15 in a row within ±1σ; 8 in a row beyond ±1σ with points on both sides among them.
-function insideOutside(pl: Planes, W: number, rIn: number, rOut: number): void {
-  const { O1, U1, D1, IN, OUT, F } = pl;
-  let pI = 0, pI2 = 0, pI4 = 0, pI8 = 0, pO = 0, pO2 = 0, pO4 = 0, pA = 0, pA2 = 0, pA4 = 0, pB = 0, pB2 = 0, pB4 = 0;
-  for (let w = 0; w < W; w++) {
-    const o = O1[w]!, u = U1[w]!, d = D1[w]!;
-    const I = ~o; // 0 before the context start: pI starts at 0
-    const I2 = I & sh(I, pI, 1), I4 = I2 & sh(I2, pI2, 2), I8 = I4 & sh(I4, pI4, 4);
-    const inside = I8 & sh(I8, pI8, 7);
-    IN[w] = inside;
-    const O2 = o & sh(o, pO, 1), O4 = O2 & sh(O2, pO2, 2), O8 = O4 & sh(O4, pO4, 4);
-    const A2 = u | sh(u, pA, 1), A4 = A2 | sh(A2, pA2, 2), A8 = A4 | sh(A4, pA4, 4);
-    const B2 = d | sh(d, pB, 1), B4 = B2 | sh(B2, pB2, 2), B8 = B4 | sh(B4, pB4, 4);
-    const outside = O8 & A8 & B8;
-    OUT[w] = outside;
-    F[w]! |= (rIn & inside) | (rOut & outside);
-    pI = I; pI2 = I2; pI4 = I4; pI8 = I8; pO = o; pO2 = O2; pO4 = O4; pA = u; pA2 = A2; pA4 = A4; pB = d; pB2 = B2; pB4 = B4;
+    const dn = ~up & ~e;
+    const u1 = o1 & p, d1 = o1 & m, u2 = x2 & p, d2 = x2 & m;
+    P[w] = p; UP[w] = up; X3[w] = x3; CF[w] = cf;
+    U1[w] = u1; D1[w] = d1; U2[w] = u2; D2[w] = d2;
+    let fire = cf | (r1 & x3);
+    if (same !== 0) {
+      // 8 and 9 in a row on one side (doubling: runs of 2, 4, 8).
+      const P2 = p & sh(p, pP, 1), P4 = P2 & sh(P2, pP2, 2), p8 = P4 & sh(P4, pP4, 4);
+      const M2 = m & sh(m, pM, 1), M4 = M2 & sh(M2, pM2, 2), m8 = M4 & sh(M4, pM4, 4);
+      const s8 = p8 | m8, s9 = (p8 & sh(p, pP, 8)) | (m8 & sh(m, pM, 8));
+      S8[w] = s8;
+      S9[w] = s9;
+      fire |= (r8 & s8) | (r9 & s9);
+      pP = p; pP2 = P2; pP4 = P4; pM = m; pM2 = M2; pM4 = M4;
+    }
+    if (moves !== 0) {
+      // 6 in a row rising or falling (5 moves one way) and 14 alternating (13 turns in a row).
+      const U2 = up & sh(up, pU, 1), U4 = U2 & sh(U2, pU2, 2);
+      const D2 = dn & sh(dn, pD, 1), D4 = D2 & sh(D2, pD2, 2);
+      const trend = (U4 & sh(up, pU, 4)) | (D4 & sh(dn, pD, 4));
+      // A turn: this move and the previous one are both moves and opposite.
+      const t = (up & sh(dn, pD, 1)) | (dn & sh(up, pU, 1));
+      const T2 = t & sh(t, pT, 1), T4 = T2 & sh(T2, pT2, 2), T8 = T4 & sh(T4, pT4, 4);
+      const turn = T8 & sh(T4, pT4, 8);
+      TREND[w] = trend;
+      TURN[w] = turn;
+      fire |= (rTrend & trend) | (rTurn & turn);
+      pU = up; pU2 = U2; pD = dn; pD2 = D2; pT = t; pT2 = T2; pT4 = T4;
+    }
+    if (windows !== 0) {
+      // 2 of 3 beyond 2σ and 4 of 5 beyond 1σ on one side, the newest point among them.
+      const f23 = (u2 & (sh(u2, pu2, 1) | sh(u2, pu2, 2))) | (d2 & (sh(d2, pd2, 1) | sh(d2, pd2, 2)));
+      // 4 of 5: the newest point and at least 3 of the 4 before it (written out: the loop is too
+      // large for the compiler to inline a helper here)
+      const ua = sh(u1, pu1, 1), ub = sh(u1, pu1, 2), uc = sh(u1, pu1, 3), ud = sh(u1, pu1, 4);
+      const da = sh(d1, pd1, 1), db = sh(d1, pd1, 2), dc = sh(d1, pd1, 3), dd = sh(d1, pd1, 4);
+      const f45 = (u1 & ((ua & ub & (uc | ud)) | (uc & ud & (ua | ub)))) | (d1 & ((da & db & (dc | dd)) | (dc & dd & (da | db))));
+      F23[w] = f23;
+      F45[w] = f45;
+      fire |= (r23 & f23) | (r45 & f45);
+      pu1 = u1; pd1 = d1; pu2 = u2; pd2 = d2;
+    }
+    if (band !== 0) {
+      // 15 in a row within ±1σ; 8 in a row beyond ±1σ with points on both sides among them.
+      const I = ~o1; // 0 before the context start: pI starts at 0
+      const I2 = I & sh(I, pI, 1), I4 = I2 & sh(I2, pI2, 2), I8 = I4 & sh(I4, pI4, 4);
+      const inside = I8 & sh(I8, pI8, 7);
+      const O2 = o1 & sh(o1, pO, 1), O4 = O2 & sh(O2, pO2, 2), O8 = O4 & sh(O4, pO4, 4);
+      const A2 = u1 | sh(u1, pA, 1), A4 = A2 | sh(A2, pA2, 2), A8 = A4 | sh(A4, pA4, 4);
+      const B2 = d1 | sh(d1, pB, 1), B4 = B2 | sh(B2, pB2, 2), B8 = B4 | sh(B4, pB4, 4);
+      const outside = O8 & A8 & B8;
+      IN[w] = inside;
+      OUT[w] = outside;
+      fire |= (rIn & inside) | (rOut & outside);
+      pI = I; pI2 = I2; pI4 = I4; pI8 = I8; pO = o1; pO2 = O2; pO4 = O4; pA = u1; pA2 = A2; pA4 = A4; pB = d1; pB2 = B2; pB4 = B4;
+    }
+    F[w] = fire;
   }
 }
 
@@ -367,12 +360,6 @@ function bit(c: boolean): number {
 /** Bit b of the result is bit b − k of the 64-bit string prv:cur (1 ≤ k ≤ 31). */
 function sh(cur: number, prv: number, k: number): number {
   return (cur << k) | (prv >>> (32 - k));
-}
-
-// Newest bit set and at least 3 of the 4 before it.
-function fourOfFiveOf(x: number, px: number): number {
-  const a = sh(x, px, 1), b = sh(x, px, 2), c = sh(x, px, 3), d = sh(x, px, 4);
-  return x & ((a & b & (c | d)) | (c & d & (a | b)));
 }
 
 // The points of a "2 of 3" window ending at i, oldest first: i and the one or two of the two

@@ -81,6 +81,8 @@ export const Phase = z.object({
   reason: NonEmptyText(400),
   /** Limits given from an earlier study or a standard (centre and sigma of individual values); otherwise computed from the baseline. */
   given: z.optional(z.object({ centre: z.number(), sigma: z.number().check(z.positive()) })),
+  /** Subgroups of this phase's baseline when it differs from the characteristic's baselineSize (absent: baselineSize). */
+  baselineCount: z.optional(z.int().check(z.minimum(2), z.maximum(1000))),
 });
 export type Phase = z.infer<typeof Phase>;
 

@@ -8,6 +8,7 @@ import {
   PushResponse,
   SignInRequest,
   SignInResponse,
+  SetupRecord,
   describeIssues,
   z,
   type DeviceRecord,
@@ -63,6 +64,8 @@ interface CallOptions {
   method: 'GET' | 'POST';
   path: string;
   token?: string;
+  /** A person's session token (set-up changes), sent in the x-plumbline-session header. */
+  session?: string;
   body?: unknown;
 }
 
@@ -79,6 +82,7 @@ async function callWithDate<T>(
   const now = config.now ?? Date.now;
   const headers: Record<string, string> = { [PROTOCOL_HEADER]: String(PROTOCOL_VERSION), accept: 'application/json' };
   if (options.token !== undefined) headers.authorization = `Bearer ${options.token}`;
+  if (options.session !== undefined) headers['x-plumbline-session'] = options.session;
   if (options.body !== undefined) headers['content-type'] = 'application/json';
   const controller = new AbortController();
   const timer = setTimeout(() => controller.abort(), config.timeoutMs ?? 30_000);
@@ -162,6 +166,19 @@ export async function pullEntries(config: ApiConfig, deviceToken: string, after:
   return { ...data, ...(serverDateMs !== undefined ? { serverDateMs } : {}) };
 }
 
+/** The server's answer to a set-up change: the log position of each entry. */
+export const SetupChangeResult = z.object({
+  serverEpoch: z.string(),
+  results: z.array(z.object({ kind: z.string(), id: z.string(), serverSeq: z.int() })),
+});
+export type SetupChangeResult = z.infer<typeof SetupChangeResult>;
+
+/** POST /setup with a person's session: new versions of set-up entities (engineer: process; admin: also people and site). */
+export async function postSetup(config: ApiConfig, deviceToken: string, sessionToken: string, entries: readonly SetupRecord[]): Promise<SetupChangeResult> {
+  const body = checkRequest(z.object({ entries: z.array(SetupRecord).check(z.minLength(1), z.maxLength(100)) }), { entries }, 'The set-up change');
+  return call(config, { method: 'POST', path: '/setup', token: deviceToken, session: sessionToken, body }, SetupChangeResult);
+}
+
 /** The calls the sync engine needs; a fake can stand in for tests. */
 export interface SyncApi {
   pushRecords(deviceToken: string, request: { batchId: string; records: readonly DeviceRecord[] }): Promise<PushResponse>;
@@ -171,6 +188,8 @@ export interface SyncApi {
 export interface ApiClient extends SyncApi {
   enrolDevice(request: EnrolRequest): Promise<EnrolResponse>;
   signIn(deviceToken: string, request: SignInRequest): Promise<SignInResponse>;
+  /** Optional so that older fakes still type-check; the real client always has it. */
+  postSetup?(deviceToken: string, sessionToken: string, entries: readonly SetupRecord[]): Promise<SetupChangeResult>;
 }
 
 /** Binds the calls to one server. */
@@ -180,5 +199,6 @@ export function createApiClient(config: ApiConfig): ApiClient {
     signIn: (token, request) => signIn(config, token, request),
     pushRecords: (token, request) => pushRecords(config, token, request),
     pullEntries: (token, after, limit) => pullEntries(config, token, after, limit),
+    postSetup: (token, session, entries) => postSetup(config, token, session, entries),
   };
 }

@@ -10,6 +10,10 @@ import { SiteOverview } from './SiteOverview';
 import { SyncSheet } from './SyncSheet';
 import { StationBoard } from './StationBoard';
 import { TopBar } from './TopBar';
+import { CharacteristicEditor } from './setup/CharacteristicEditor';
+import { LimitsHistoryScreen } from './setup/LimitsHistoryScreen';
+import { PhaseScreen } from './setup/PhaseScreen';
+import { SetupScreen } from './setup/SetupScreen';
 import { useAppState, type AppHandle } from './use-app';
 
 export function App({ app, locale }: { app: AppHandle; locale: string }) {
@@ -30,6 +34,14 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
   else if (state.screen.name === 'import') body = <ImportScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
   else if (state.screen.name === 'overview') body = <SiteOverview state={state} actions={actions} />;
   else if (state.screen.name === 'handover') body = <HandoverScreen state={state} actions={actions} />;
+  else if (state.screen.name === 'setup') body = <SetupScreen state={state} actions={actions} />;
+  else if (state.screen.name === 'edit-characteristic') {
+    const { characteristicId, stationId } = state.screen;
+    body = <CharacteristicEditor key={characteristicId ?? `new:${stationId ?? ''}`} state={state} actions={actions} characteristicId={characteristicId} stationId={stationId} />;
+  } else if (state.screen.name === 'new-phase') {
+    const { characteristicId, fromSampleId } = state.screen;
+    body = <PhaseScreen key={`${characteristicId}:${fromSampleId ?? ''}`} state={state} actions={actions} characteristicId={characteristicId} fromSampleId={fromSampleId} />;
+  } else if (state.screen.name === 'limits-history') body = <LimitsHistoryScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
   else body = <StationBoard state={state} actions={actions} />;
   return (
     <div class="shell">

@@ -60,10 +60,17 @@ export function CharacteristicScreen({ state, actions, characteristicId, separat
               }}>
                 Export history (CSV)
               </button>
+              <button type="button" class="btn small" data-testid="open-limits-history" onClick={() => actions.open({ name: 'limits-history', characteristicId })}>
+                Limits by phase
+              </button>
               {state.person?.role === 'engineer' || state.person?.role === 'admin' ? (
-                <button type="button" class="btn small" data-testid="import-csv" onClick={() => actions.open({ name: 'import', characteristicId })}>
-                  Import history (CSV)
-                </button>
+                <>
+                  <button type="button" class="btn small" data-testid="open-new-phase" onClick={() => actions.open({ name: 'new-phase', characteristicId })}>Start a new phase</button>
+                  <button type="button" class="btn small" data-testid="edit-characteristic" onClick={() => actions.open({ name: 'edit-characteristic', characteristicId })}>Change set-up</button>
+                  <button type="button" class="btn small" data-testid="import-csv" onClick={() => actions.open({ name: 'import', characteristicId })}>
+                    Import history (CSV)
+                  </button>
+                </>
               ) : null}
             </div>
           ) : null}

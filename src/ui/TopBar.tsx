@@ -51,6 +51,9 @@ export function TopBar({ state, actions }: { state: AppState; actions: AppAction
         aria-label={state.theme === 'dark' ? 'Use the light theme' : 'Use the dark theme'} data-testid="theme-toggle">
         {state.theme === 'dark' ? '☀ Light' : '☾ Dark'}
       </button>
+      {state.stage === 'ready' && (state.person?.role === 'engineer' || state.person?.role === 'admin') ? (
+        <button type="button" class="pill" onClick={() => actions.open({ name: 'setup' })} data-testid="open-setup">Set-up</button>
+      ) : null}
       {state.person ? (
         <button type="button" class="pill" onClick={() => actions.signOut()} data-testid="person-pill" title="Change person">
           {state.person.name} · {state.person.role}

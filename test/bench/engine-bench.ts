@@ -17,6 +17,7 @@ import { computeLimits, emptyLimits } from '../../src/engine/limits';
 import { ruleSet } from '../../src/engine/rule-signals';
 import { RuleEvaluator } from '../../src/engine/rules';
 import { SubgroupStats } from '../../src/engine/subgroup-stats';
+import { useZoneKernel, zoneKernel } from '../../src/engine/zone-kernel';
 
 const NELSON: RuleCode[] = ['n1', 'n2', 'n3', 'n4', 'n5', 'n6', 'n7', 'n8'];
 
@@ -83,6 +84,15 @@ let signals = 0;
 const full = time(() => {
   signals = analyze({ chart: 'xmr', individuals: data, rules: NELSON }).signals.length;
 }, 31, 3);
+
+// The same analysis with the zone tests in JavaScript only (a JavaScript engine without
+// WebAssembly SIMD, or a page whose content security policy forbids compiling it).
+const kernelHere = zoneKernel(N) !== null;
+useZoneKernel('never');
+const fullJs = time(() => {
+  sink += analyze({ chart: 'xmr', individuals: data, rules: NELSON }).signals.length;
+}, 31, 3);
+useZoneKernel('auto');
 
 const fullObjects = time(() => {
   sink += analyze({ chart: 'xmr', subgroups, rules: NELSON }).signals.length;
@@ -165,6 +175,8 @@ const lines = [
   `| bare single pass over the 100,000-value Float64Array (sum and moving ranges) | ${ms(bare)} | — |`,
   `| analyze({ chart: 'xmr', individuals }), all 8 Nelson rules (${signals} signals) | ${ms(full)} | — |`,
   `| **ratio full analysis / bare pass** | ${ratio(full, bare)} | ≤ 10× |`,
+  `| the same analysis with the zone tests in JavaScript only (no WebAssembly) | ${ms(fullJs)} | — |`,
+  `| ratio of that to the bare pass | ${ratio(fullJs, bare)} | — |`,
   `| of which: copying the values and summing them and their moving ranges (for the baseline) | ${ms(copyAndSum)} | — |`,
   `| of which: the 8 Nelson rules and the moving-range chart (batch detector, signal objects included) | ${ms(rulesAlone)} | — |`,
   `| of that: the classification pass alone (5 bits per point; rule 1 only, limits so wide nothing fires) | ${ms(rulesNoSignals)} | — |`,
@@ -189,6 +201,9 @@ const lines = [
   '- The batch detector (bit-rules.ts) makes 5 bits per point without branches (above the centre, beyond ±1σ, beyond',
   '  ±2σ, up from the previous value, rare case), then runs every rule on 32 points at a time; a single append uses the',
   '  point-by-point evaluator, whose data-dependent comparisons are unpredictable branches on noisy data.',
+  `- The 5 bits per point come from a WebAssembly SIMD kernel (zone-kernel.ts, two points per instruction) where the`,
+  `  JavaScript engine has one — ${kernelHere ? 'it did in this run' : 'it did NOT in this run'} — else from the JavaScript loop (the "JavaScript only" row).`,
+  '  The values are copied into the kernel\'s memory for it (one block copy, counted in the full analysis).',
   '- Median CPU counts all threads (garbage collection runs beside the main thread), so it is above the wall time.',
   '',
 ];

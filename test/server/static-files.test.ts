@@ -36,6 +36,9 @@ describe('serving the built app', () => {
       expect(csp).toContain(part);
     }
     expect(csp).not.toMatch(/script-src[^;]*unsafe-inline/);
+    // WebAssembly compilation for the engine's SIMD kernel, never eval() of JavaScript
+    expect(csp).toMatch(/script-src 'self' 'wasm-unsafe-eval'(;|$)/);
+    expect(csp).not.toContain("'unsafe-eval'");
     expect(res.headers['x-content-type-options']).toBe('nosniff');
     expect(res.headers['referrer-policy']).toBe('no-referrer');
   });

@@ -96,6 +96,11 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
             decimals={ch.decimals + 1} height={160} showZones={false} offset={from} testId="companion-chart" onPick={pick} selected={selectedHere} />
         </>
       )}
+      {phaseStarts.length ? (
+        <p class="chart-hint" data-testid="phase-boundaries">
+          {phaseStarts.map((p) => `New ${p.label} from point ${from + p.index + 1}`).join(' · ')}
+        </p>
+      ) : null}
       <p class="chart-hint">Tap a point for its details · drag across the chart to zoom in, double-tap to zoom out · Earlier / Later move through the history.</p>
       {selected !== null ? <PointDetails view={view} index={selected} state={state} actions={actions} onClose={() => setSelected(null)} /> : null}
     </section>

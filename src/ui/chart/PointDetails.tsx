@@ -78,6 +78,12 @@ export function PointDetails({ view, index, state, actions, onClose }: {
               {sample.excluded ? 'Use in limits again' : 'Leave out of limits'}
             </button>
           ) : null}
+          {canExclude && index > (view.analysis.phases[view.analysis.phases.length - 1]?.start ?? 0) ? (
+            <button type="button" class="btn small" data-testid="phase-from-point"
+              onClick={() => actions.open({ name: 'new-phase', characteristicId: ch.id, fromSampleId: sample.id })}>
+              New phase from here
+            </button>
+          ) : null}
         </div>
       ) : (
         <div class="stack" style="gap:8px">

@@ -1,0 +1,63 @@
+import type { AppActions, AppState } from '../../app/app-state';
+import { SIGMA_METHOD_TEXT, limitsHistory, type LimitsHistoryRow } from '../../app/limits-history';
+import { formatShortDateTime } from '../format-time';
+import { CHART_SHORT_NAME } from './chart-names';
+import './setup.css';
+
+/** "+57%", "−12%": a ratio as a signed change. */
+function percentChange(ratio: number): string {
+  const pct = Math.round((ratio - 1) * 100);
+  return `${pct >= 0 ? '+' : '−'}${Math.abs(pct)}%`;
+}
+
+/** Each phase of a characteristic with its limits, how they were set, and how they moved from the phase before. Printable. */
+export function LimitsHistoryScreen({ state, actions, characteristicId }: { state: AppState; actions: AppActions; characteristicId: string }) {
+  const ch = state.setup.characteristics.find((c) => c.id === characteristicId);
+  const view = state.views[characteristicId];
+  if (!ch) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
+  if (!view) return <main class="main"><p class="hint">Loading…</p></main>;
+  const rows = limitsHistory(view.analysis, view.series, state.setup.phases);
+  const d = ch.decimals + 2;
+  const f = (v: number | null) => (v === null ? '—' : v.toFixed(d));
+  const delta = (v: number | null | undefined) => (v === null || v === undefined ? null : `${v >= 0 ? '+' : '−'}${Math.abs(v).toFixed(d)}`);
+  const how = (r: LimitsHistoryRow) => r.source === 'given' ? 'Given (earlier study or standard)' : `Baseline of ${r.baselineCount} subgroup${r.baselineCount === 1 ? '' : 's'}${r.provisional ? ' — provisional' : ''}`;
+  return (
+    <main class="main stack setup-screen">
+      <button type="button" class="btn quiet small back-link no-print" onClick={() => actions.open({ name: 'characteristic', characteristicId })}>← {ch.name}</button>
+      <div class="row" style="justify-content:space-between">
+        <h1>Limits by phase: {ch.name}</h1>
+        <button type="button" class="btn small no-print" onClick={() => window.print()}>Print</button>
+      </div>
+      <p class="hint">{ch.unit} · {CHART_SHORT_NAME[ch.chartType]} · {view.analysis.points.length} points · as of {formatShortDateTime(new Date(state.now).toISOString())}</p>
+      <div class="table-scroll card" tabIndex={0} role="region" aria-label={`Limits by phase of ${ch.name} (scrolls sideways)`}>
+        <table class="history-table" data-testid="limits-history">
+          <caption class="sr-only">Limits of each phase of {ch.name}</caption>
+          <thead>
+            <tr>
+              <th scope="col">Phase</th><th scope="col">Starts</th><th scope="col">Reason</th><th scope="col">Limits set by</th>
+              <th scope="col">Centre</th><th scope="col">UCL</th><th scope="col">LCL</th><th scope="col">Sigma</th>
+              <th scope="col">Points</th><th scope="col">Points with signals</th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((r) => (
+              <tr key={r.number} data-testid={`history-row-${r.number}`}>
+                <th scope="row">Phase {r.number}</th>
+                <td data-label="Starts">{r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</td>
+                <td data-label="Reason">{r.reason}</td>
+                <td data-label="Limits set by">{how(r)}</td>
+                <td data-label="Centre">{f(r.centre)}<span class="delta">{delta(r.change?.centre)}</span></td>
+                <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.ucl)}</span></td>
+                <td data-label="LCL">{f(r.lcl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.lcl)}</span></td>
+                <td data-label="Sigma">{f(r.sigma)} <span class="delta">{SIGMA_METHOD_TEXT[r.sigmaMethod]}{r.change?.sigmaRatio ? ` · ${percentChange(r.change.sigmaRatio)} vs phase before` : ''}</span></td>
+                <td data-label="Points">{r.points}</td>
+                <td data-label="Points with signals">{r.signalPoints}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <p class="hint">Changes under each figure are against the phase before. Limits marked “latest” vary with the sample size (or settle over time on an EWMA chart); the row shows them at the phase's latest point.</p>
+    </main>
+  );
+}
