@@ -1,5 +1,6 @@
 import type { Analysis, Signal } from '../engine/types';
 import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, Sample, SetupRecord, Site, Station } from '../schema';
+import type { AdminActions, AdminView } from './admin-controller';
 import type { ChartSeries } from './analysis-input';
 import type { DueStatus } from './due-state';
 import type { SignalGroup } from './signal-state';
@@ -40,6 +41,8 @@ export interface SyncView {
   /** Server clock minus tablet clock, once known; `clockSkewed` when it is beyond the tolerance. */
   readonly clockOffsetMs?: number;
   readonly clockSkewed?: boolean;
+  /** An administrator withdrew this tablet: it can no longer send or receive; unsent records stay on it. */
+  readonly withdrawn?: boolean;
 }
 
 /** What the sync details sheet shows besides the sync state. */
@@ -72,7 +75,9 @@ export type Screen =
   | { readonly name: 'new-phase'; readonly characteristicId: string; readonly fromSampleId?: string }
   | { readonly name: 'limits-history'; readonly characteristicId: string }
   /** CSV import of a characteristic's history (engineer and admin only). */
-  | { readonly name: 'import'; readonly characteristicId: string };
+  | { readonly name: 'import'; readonly characteristicId: string }
+  /** The site admin's people and tablets (admins only, online only). */
+  | { readonly name: 'admin'; readonly tab: 'people' | 'tablets' };
 
 export interface AppState {
   readonly stage: 'starting' | 'enrol' | 'sign-in' | 'ready' | 'failed';
@@ -94,6 +99,8 @@ export interface AppState {
   readonly syncDetails?: SyncDetails;
   /** Storage persistence as granted at start (null until asked or where unsupported). */
   readonly persisted: boolean | null;
+  /** The admin screens' data while they are open. */
+  readonly admin?: AdminView;
 }
 
 export interface EntryInput {
@@ -118,7 +125,7 @@ export interface AnswerInput {
 }
 
 /** What the screens can ask for. Each action reports failure through `state.error`/`toast`, never by throwing into the UI. */
-export interface AppActions {
+export interface AppActions extends AdminActions {
   enrol(code: string, deviceName: string): Promise<boolean>;
   signIn(login: string, pin: string): Promise<boolean>;
   signOut(): void;

@@ -1,5 +1,6 @@
 import { useEffect, useMemo } from 'preact/hooks';
 import { decimalSeparatorFor } from '../app/number-entry';
+import { AdminScreen } from './admin/AdminScreen';
 import { CharacteristicScreen } from './CharacteristicScreen';
 import { EnrolScreen } from './EnrolScreen';
 import { SignalPromptSheet } from './SignalPromptSheet';
@@ -14,6 +15,7 @@ import { CharacteristicEditor } from './setup/CharacteristicEditor';
 import { LimitsHistoryScreen } from './setup/LimitsHistoryScreen';
 import { PhaseScreen } from './setup/PhaseScreen';
 import { SetupScreen } from './setup/SetupScreen';
+import { WithdrawnNotice } from './WithdrawnNotice';
 import { useAppState, type AppHandle } from './use-app';
 
 export function App({ app, locale }: { app: AppHandle; locale: string }) {
@@ -42,10 +44,12 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
     const { characteristicId, fromSampleId } = state.screen;
     body = <PhaseScreen key={`${characteristicId}:${fromSampleId ?? ''}`} state={state} actions={actions} characteristicId={characteristicId} fromSampleId={fromSampleId} />;
   } else if (state.screen.name === 'limits-history') body = <LimitsHistoryScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
+  else if (state.screen.name === 'admin') body = <AdminScreen state={state} actions={actions} tab={state.screen.tab} />;
   else body = <StationBoard state={state} actions={actions} />;
   return (
     <div class="shell">
       <TopBar state={state} actions={actions} />
+      <WithdrawnNotice state={state} />
       {state.stage === 'ready' && state.error ? <p class="caution" role="alert" style="margin:12px 20px 0">{state.error}</p> : null}
       {body}
       {state.stage === 'ready' && state.prompt && promptChar ? (

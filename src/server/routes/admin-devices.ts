@@ -2,20 +2,28 @@ import type { FastifyInstance } from 'fastify';
 import { authenticateSession, requireRole } from '../auth';
 import { HttpError } from '../http-error';
 import type { ServerContext } from '../server-context';
-import type { DeviceRow } from '../store/server-store';
-
-export interface DeviceListResponse {
-  readonly devices: readonly DeviceRow[];
-}
+import type { DeviceListResponse } from '../../schema/index';
 
 /**
- * GET /api/v1/admin/devices (admin session) → {devices}: the site's enrolled tablets.
+ * GET /api/v1/admin/devices (admin session) → {devices}: the site's enrolled tablets, with when each last
+ *   sent records and last had someone sign in (what the server knows of them; it does not log pulls).
  * POST /api/v1/admin/devices/:id/revoke (admin session) → 204: the tablet's token stops working.
  */
 export function registerAdminDevicesRoutes(app: FastifyInstance, ctx: ServerContext): void {
   app.get('/api/v1/admin/devices', async (request): Promise<DeviceListResponse> => {
     const siteId = await adminSite(ctx, request, 'list tablets');
-    return { devices: await ctx.store.listDevices(siteId) };
+    const [devices, activity] = await Promise.all([ctx.store.listDevices(siteId), ctx.store.listDeviceActivity(siteId)]);
+    const byId = new Map(activity.map((a) => [a.deviceId, a]));
+    return {
+      devices: devices.map((d) => ({
+        id: d.id,
+        name: d.name,
+        enrolledAt: d.enrolledAt,
+        revokedAt: d.revokedAt,
+        lastUploadAt: byId.get(d.id)?.lastUploadAt ?? null,
+        lastSignInAt: byId.get(d.id)?.lastSignInAt ?? null,
+      })),
+    };
   });
 
   app.post<{ Params: { id: string } }>('/api/v1/admin/devices/:id/revoke', async (request, reply) => {

@@ -18,6 +18,7 @@ import type {
   SetupKind,
   SiteScopedSetup,
 } from './server-store';
+import { DEVICE_ACTIVITY_SQL, toDeviceActivity, type DeviceActivity } from './server-store';
 
 /** Anything that runs a query: the pool (autocommit) or one client inside a transaction. */
 type Queryable = Pick<pg.Pool | pg.PoolClient, 'query'>;
@@ -262,6 +263,11 @@ export class PgStore implements ServerStore {
       [siteId],
     );
     return rows.map(toDeviceRow);
+  }
+
+  async listDeviceActivity(siteId: string): Promise<DeviceActivity[]> {
+    const { rows } = await this.pool.query<Parameters<typeof toDeviceActivity>[0]>(DEVICE_ACTIVITY_SQL.replace('?', '$1'), [siteId]);
+    return rows.map(toDeviceActivity);
   }
 
   async revokeDevice(id: string, at: string): Promise<boolean> {

@@ -32,6 +32,8 @@ export interface ServerStore {
   findDeviceByTokenHash(tokenHash: string): Promise<DeviceRow | undefined>;
   getDevice(id: string): Promise<DeviceRow | undefined>;
   listDevices(siteId: string): Promise<DeviceRow[]>;
+  /** When each tablet of a site last sent records and last had someone sign in (null: never). */
+  listDeviceActivity(siteId: string): Promise<DeviceActivity[]>;
   /** Withdraws a device: its token stops working at once. Returns false if there is no such device. */
   revokeDevice(id: string, at: string): Promise<boolean>;
   /** Registers a device directly (the demo seeder's own device); fails if the id exists. */
@@ -110,6 +112,24 @@ export interface DeviceRow {
   readonly name: string;
   readonly enrolledAt: string;
   readonly revokedAt: string | null;
+}
+
+export interface DeviceActivity {
+  readonly deviceId: string;
+  /** Server time of the newest record the tablet sent. */
+  readonly lastUploadAt: string | null;
+  /** When someone last signed in (online) on the tablet. */
+  readonly lastSignInAt: string | null;
+}
+
+/** Both back-ends run this (`?` placeholders; the PostgreSQL store numbers them). ISO strings order as text. */
+export const DEVICE_ACTIVITY_SQL = `SELECT d.id AS device_id,
+  (SELECT MAX(l.server_time) FROM log l WHERE l.site_id = d.site_id AND l.device_id = d.id) AS last_upload,
+  (SELECT MAX(s.created_at) FROM sessions s WHERE s.device_id = d.id) AS last_sign_in
+  FROM devices d WHERE d.site_id = ?`;
+
+export function toDeviceActivity(r: { device_id: string; last_upload: string | null; last_sign_in: string | null }): DeviceActivity {
+  return { deviceId: r.device_id, lastUploadAt: r.last_upload ?? null, lastSignInAt: r.last_sign_in ?? null };
 }
 
 export interface SessionRow {

@@ -18,6 +18,7 @@ import type {
   SetupKind,
   SiteScopedSetup,
 } from './server-store';
+import { DEVICE_ACTIVITY_SQL, toDeviceActivity, type DeviceActivity } from './server-store';
 
 type Db = Database.Database;
 
@@ -189,6 +190,11 @@ export class SqliteStore implements ServerStore {
   async listDevices(siteId: string): Promise<DeviceRow[]> {
     const rows = this.db.prepare(`SELECT ${DEVICE_COLUMNS} FROM devices WHERE site_id = ? ORDER BY enrolled_at, id`).all(siteId) as DeviceDbRow[];
     return rows.map(toDeviceRow);
+  }
+
+  async listDeviceActivity(siteId: string): Promise<DeviceActivity[]> {
+    const rows = this.db.prepare(DEVICE_ACTIVITY_SQL).all(siteId) as Parameters<typeof toDeviceActivity>[0][];
+    return rows.map(toDeviceActivity);
   }
 
   async revokeDevice(id: string, at: string): Promise<boolean> {
