@@ -1,5 +1,5 @@
 import type { Analysis, Signal } from '../engine/types';
-import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, SetupRecord, Site, Station } from '../schema';
+import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, Sample, SetupRecord, Site, Station } from '../schema';
 import type { AdminActions, AdminView } from './admin-controller';
 import type { ChartSeries } from './analysis-input';
 import type { DueStatus } from './due-state';
@@ -74,6 +74,8 @@ export type Screen =
   /** A new phase; `fromSampleId` preselects the point it starts at (chosen on the chart). */
   | { readonly name: 'new-phase'; readonly characteristicId: string; readonly fromSampleId?: string }
   | { readonly name: 'limits-history'; readonly characteristicId: string }
+  /** CSV import of a characteristic's history (engineer and admin only). */
+  | { readonly name: 'import'; readonly characteristicId: string }
   /** The site admin's people and tablets (admins only, online only). */
   | { readonly name: 'admin'; readonly tab: 'people' | 'tablets' };
 
@@ -109,6 +111,12 @@ export interface EntryInput {
   readonly comment?: string;
 }
 
+/** What an import wrote: new samples, and samples this tablet already held (imported before). */
+export interface ImportOutcome {
+  readonly saved: number;
+  readonly alreadyHeld: number;
+}
+
 export interface AnswerInput {
   readonly whatHappened: string;
   readonly causeCategory: string;
@@ -139,6 +147,11 @@ export interface AppActions extends AdminActions {
    * change in messages. Once stored, the tablet pulls the new set-up.
    */
   saveSetup(entries: readonly SetupRecord[], what: string): Promise<boolean>;
+  /**
+   * Records checked import samples (engineer and admin only) in batches, each batch in one transaction with
+   * its outbox rows; `onProgress` after each batch. Null when nothing could be saved (state.error says why).
+   */
+  importSamples(characteristicId: string, samples: readonly Sample[], onProgress?: (done: number, total: number) => void): Promise<ImportOutcome | null>;
   setTheme(theme: 'light' | 'dark'): void;
   syncNow(): Promise<void>;
   openSyncDetails(): Promise<void>;

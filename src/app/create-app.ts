@@ -11,6 +11,7 @@ import {
   listOutboxProblems,
   removeSignedInPerson,
   saveDeviceRecord,
+  saveImportedSamples,
   saveSignedInPerson,
   getSignedInPerson,
   setDeviceIdentity,
@@ -29,6 +30,7 @@ import {
   type AppState,
   type CharacteristicView,
   type EntryInput,
+  type ImportOutcome,
   type Screen,
   type SignalPrompt,
   type SyncView,
@@ -85,6 +87,8 @@ const sessionKey = (personId: string) => `plumbline.session.${personId}`;
 
 const SUPERVISING: readonly Person['role'][] = ['supervisor', 'engineer', 'admin'];
 const ENGINEERING: readonly Person['role'][] = ['engineer', 'admin'];
+/** Imported samples saved per transaction: big enough to be quick, small enough to keep the screen painting. */
+const IMPORT_BATCH = 500;
 
 function toPerson(p: SignedInPerson): Person {
   return { id: p.personId, name: p.name, login: p.login, role: p.role, active: true };
@@ -439,7 +443,7 @@ export function createPlumblineApp(deps: AppDeps) {
     },
     open(screen: Screen) {
       set({ screen, error: undefined });
-      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history') void refreshViews([screen.characteristicId]);
+      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history' || screen.name === 'import') void refreshViews([screen.characteristicId]);
       else if (screen.name === 'overview' || screen.name === 'handover') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else if (screen.name === 'admin') {
         if (state.person?.role !== 'admin') return set({ screen: { name: 'board' }, error: 'Only a site admin can manage people and tablets.' });
@@ -586,6 +590,41 @@ export function createPlumblineApp(deps: AppDeps) {
       return sendSetup(entries, what);
     },
 
+    async importSamples(characteristicId, samples, onProgress) {
+      if (!identity || !state.person) return null;
+      if (!ENGINEERING.includes(state.person.role)) {
+        set({ error: 'Only a quality engineer (or admin) can import history.' });
+        return null;
+      }
+      if (samples.some((s) => s.characteristicId !== characteristicId)) {
+        set({ error: 'The import was NOT saved: some samples belong to another characteristic.' });
+        return null;
+      }
+      let saved = 0;
+      let alreadyHeld = 0;
+      let failed = false;
+      try {
+        for (let i = 0; i < samples.length; i += IMPORT_BATCH) {
+          const r = await saveImportedSamples(db, samples.slice(i, i + IMPORT_BATCH), deps.now());
+          saved += r.saved;
+          alreadyHeld += r.alreadyHeld;
+          onProgress?.(Math.min(i + IMPORT_BATCH, samples.length), samples.length);
+          // Let the screen paint between batches: a big file must not freeze it.
+          await new Promise((resolve) => setTimeout(resolve, 0));
+        }
+      } catch (e) {
+        failed = true;
+        set({ error: `The import stopped: ${saved} sample${saved === 1 ? ' was' : 's were'} saved, the rest was NOT saved: ${messageOf(e)}` });
+      }
+      // The in-memory copy is read again from IndexedDB (a sort of thousands of appends would cost more).
+      records.delete(characteristicId);
+      announce([characteristicId]);
+      await refreshViews([characteristicId]);
+      if (saved > 0) sendSoon();
+      const outcome: ImportOutcome = { saved, alreadyHeld };
+      return failed && saved === 0 ? null : outcome;
+    },
+
     setTheme(theme) {
       deps.prefs.setItem('plumbline.theme', theme);
       set({ theme });
@@ -667,6 +706,8 @@ export function createPlumblineApp(deps: AppDeps) {
       ...kept,
       ...(patch.values ? { values: patch.values, count: undefined, inspected: undefined } : {}),
       ...patch,
+      // Corrected values were typed here, not read from the file: the import note stays with the original.
+      ...(patch.values || patch.count !== undefined || patch.inspected !== undefined ? { imported: undefined } : {}),
       kind: 'sample', id: deps.newId(), supersedes: original.id,
       recordedBy: state.person!.id, deviceId: identity!.deviceId,
     };

@@ -6,6 +6,7 @@ import { EnrolScreen } from './EnrolScreen';
 import { SignalPromptSheet } from './SignalPromptSheet';
 import { SignInScreen } from './SignInScreen';
 import { HandoverScreen } from './HandoverScreen';
+import { ImportScreen } from './import/ImportScreen';
 import { SiteOverview } from './SiteOverview';
 import { SyncSheet } from './SyncSheet';
 import { StationBoard } from './StationBoard';
@@ -32,6 +33,7 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
   else if (state.stage === 'enrol') body = <EnrolScreen state={state} actions={actions} />;
   else if (state.stage === 'sign-in') body = <SignInScreen state={state} actions={actions} />;
   else if (state.screen.name === 'characteristic') body = <CharacteristicScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
+  else if (state.screen.name === 'import') body = <ImportScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
   else if (state.screen.name === 'overview') body = <SiteOverview state={state} actions={actions} />;
   else if (state.screen.name === 'handover') body = <HandoverScreen state={state} actions={actions} />;
   else if (state.screen.name === 'setup') body = <SetupScreen state={state} actions={actions} />;
