@@ -19,7 +19,8 @@ export function buildCharacteristicView(
   // The live chart needs limits and signals, not capability (a study of its own): leave the spec out.
   const { spec: _spec, ...live } = series.input;
   const analysis = analyzeOrExplain(live);
-  const groups = groupSignals(analysis, series.sampleIds, responses, acks);
+  const imported = new Set(series.samples.filter((s) => s.imported !== undefined).map((s) => s.id));
+  const groups = groupSignals(analysis, series.sampleIds, responses, acks, imported);
   const lastTakenAt = series.samples[series.samples.length - 1]?.takenAt;
   return {
     characteristic,

@@ -2,7 +2,12 @@ import { continuesEarlierEpisode, episodeStarts } from '../engine';
 import type { Analysis, Signal } from '../engine/types';
 import type { Acknowledgement, Response } from '../schema';
 
-export type SignalState = 'unanswered' | 'answered' | 'closed';
+/**
+ * unanswered → answered → closed (signed off). 'historical': it fired at an imported sample (history
+ * brought in from paper or an earlier system) and nobody answered it here: shown on the chart and in
+ * the history, never counted as open and never prompted for; it can still be answered.
+ */
+export type SignalState = 'unanswered' | 'answered' | 'closed' | 'historical';
 
 /** The signals that fired at one sample, with what has been done about them. */
 export interface SignalGroup {
@@ -19,13 +24,15 @@ export interface SignalGroup {
 
 /**
  * Groups the engine's signals by the sample at which they fired and joins the responses and
- * acknowledgements. A signal stays open until it is answered and a supervisor acknowledges it.
+ * acknowledgements. A signal stays open until it is answered and a supervisor acknowledges it,
+ * unless it began at one of the `imported` samples (then it is 'historical' until answered).
  */
 export function groupSignals(
   analysis: Analysis,
   sampleIds: readonly string[],
   responses: readonly Response[],
   acks: readonly Acknowledgement[],
+  imported: ReadonlySet<string> = new Set(),
 ): SignalGroup[] {
   // A pattern that goes on firing point after point is one event: group it under the point where it began.
   const starts = episodeStarts(analysis.signals);
@@ -52,7 +59,7 @@ export function groupSignals(
   for (const [sampleId, signals] of bySample) {
     const response = responseBySample.get(sampleId);
     const ack = response ? ackByResponse.get(response.id) : undefined;
-    const state: SignalState = !response ? 'unanswered' : ack ? 'closed' : 'answered';
+    const state: SignalState = !response ? (imported.has(sampleId) ? 'historical' : 'unanswered') : ack ? 'closed' : 'answered';
     const index = signals[0]!.index;
     groups.push({ sampleId, index, lastIndex: lastBySample.get(sampleId) ?? index, signals, state, ...(response ? { response } : {}), ...(ack ? { ack } : {}) });
   }

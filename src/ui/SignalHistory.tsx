@@ -1,7 +1,16 @@
 import type { AppActions, AppState, CharacteristicView } from '../app/app-state';
+import type { SignalState } from '../app/signal-state';
 import { ruleName } from './rule-text';
 
 import { formatShortDateTime as when } from './format-time';
+
+const CHIP: Record<SignalState, string> = { unanswered: 'signal', answered: 'answered', closed: 'steady', historical: 'neutral' };
+const LABEL: Record<SignalState, string> = {
+  unanswered: 'Needs an answer',
+  answered: 'Awaiting sign-off',
+  closed: 'Signed off',
+  historical: 'In imported history',
+};
 
 /** Signals of one characteristic, newest first, with their answers and sign-off. */
 export function SignalHistory({ view, state, actions }: { view: CharacteristicView; state: AppState; actions: AppActions }) {
@@ -17,9 +26,7 @@ export function SignalHistory({ view, state, actions }: { view: CharacteristicVi
           <li class="signal-item" key={g.sampleId}>
             <div class="row" style="justify-content:space-between">
               <strong>Point {g.index + 1}{sample ? ` · ${when(sample.takenAt)}` : ''}</strong>
-              <span class={`chip ${g.state === 'unanswered' ? 'signal' : g.state === 'answered' ? 'answered' : 'steady'}`}>
-                {g.state === 'unanswered' ? 'Needs an answer' : g.state === 'answered' ? 'Awaiting sign-off' : 'Signed off'}
-              </span>
+              <span class={`chip ${CHIP[g.state]}`}>{LABEL[g.state]}</span>
             </div>
             {g.signals.map((s) => <span key={s.rule}>{s.explanation} <span class="hint">({ruleName(s.rule)})</span></span>)}
             {g.lastIndex > g.index ? <span class="hint">The pattern went on firing up to point {g.lastIndex + 1}.</span> : null}
@@ -29,7 +36,9 @@ export function SignalHistory({ view, state, actions }: { view: CharacteristicVi
                 {people.get(g.response.respondedBy) ?? g.response.respondedBy}, {when(g.response.respondedAt)}
               </span>
             ) : (
-              <button type="button" class="btn small warn" onClick={() => actions.reopenPrompt(view.characteristic.id, g.sampleId)}>Answer now</button>
+              <button type="button" class={g.state === 'historical' ? 'btn small' : 'btn small warn'} onClick={() => actions.reopenPrompt(view.characteristic.id, g.sampleId)}>
+                {g.state === 'historical' ? 'Answer (cause known)' : 'Answer now'}
+              </button>
             )}
             {g.response && !g.ack && canSignOff ? (
               <button type="button" class="btn small" onClick={() => void actions.acknowledge(view.characteristic.id, g.response!.id)}>Sign off</button>

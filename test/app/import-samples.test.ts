@@ -36,6 +36,24 @@ function fileOf(t: Tablet, n: number): string {
 }
 
 describe('importSamples()', () => {
+  it('signals in imported history are shown as historical: never open, never prompted, answerable', async () => {
+    const t = await signedIn('ada', '3456');
+    t.app.actions.open({ name: 'import', characteristicId: 'ch-len' });
+    await t.settle();
+    // 30 steady values, then one far out: rule 1 fires at the last imported point
+    const lines = ['taken_at,value'];
+    for (let i = 0; i < 31; i++) lines.push(`${new Date(t.clock.t - (31 - i) * HOUR).toISOString()},${i === 30 ? '19.00' : (10 + (i % 3) / 100).toFixed(2)}`);
+    const samples = samplesFrom(t, lines.join('\r\n'));
+    expect(samples).toHaveLength(31);
+    await t.app.actions.importSamples('ch-len', samples);
+    await t.settle();
+    const state = t.app.getState();
+    const groups = state.views['ch-len']!.groups;
+    expect(groups.length).toBeGreaterThan(0);
+    expect(groups.every((g) => g.state === 'historical')).toBe(true);
+    expect(state.prompt).toBeUndefined();
+  });
+
   it('records the samples with outbox rows, sends them, and a second import of the same file adds nothing anywhere', async () => {
     const t = await signedIn('ada', '3456');
     t.app.actions.open({ name: 'import', characteristicId: 'ch-len' });

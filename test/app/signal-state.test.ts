@@ -32,6 +32,16 @@ describe('groupSignals', () => {
     expect(g!.ack).toBeUndefined();
   });
 
+  it('historical (not open) when it fired at an imported sample and nobody answered it; answered and closed as usual once someone does', () => {
+    const analysis = analysisWith(8, [we1(3), we1(6)]);
+    const imported = new Set([ids[3]!]);
+    const groups = groupSignals(analysis, ids, [], [], imported);
+    expect(groups.map((g) => [g.index, g.state])).toEqual([[6, 'unanswered'], [3, 'historical']]);
+    const r = makeResponse(ids[3]!);
+    expect(groupSignals(analysis, ids, [r], [], imported).find((g) => g.index === 3)?.state).toBe('answered');
+    expect(groupSignals(analysis, ids, [r], [makeAck(r.id)], imported).find((g) => g.index === 3)?.state).toBe('closed');
+  });
+
   it('answered once a response exists, closed once a supervisor acknowledges it', () => {
     const r = makeResponse(ids[3]!);
     const analysis = analysisWith(8, [we1(3)]);

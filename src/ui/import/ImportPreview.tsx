@@ -78,7 +78,7 @@ export function ImportPreview({ rows, summary, characteristic, separator, includ
       ) : null}
       {firing > 0 ? (
         <p class="caution" data-testid="import-signals">
-          The chart signals at {firing} of the imported point{firing === 1 ? '' : 's'}: each will show as a signal to answer and sign off, like any other.
+          The chart signals at {firing} of the imported point{firing === 1 ? '' : 's'}: each will show on the chart and in the signal history as found in imported history — not counted as open and not asked about, though it can be answered where the cause is known.
         </p>
       ) : null}
       {toRecord.length ? (
