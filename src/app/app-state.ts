@@ -70,7 +70,9 @@ export type Screen =
   | { readonly name: 'edit-characteristic'; readonly characteristicId?: string; readonly stationId?: string }
   /** A new phase; `fromSampleId` preselects the point it starts at (chosen on the chart). */
   | { readonly name: 'new-phase'; readonly characteristicId: string; readonly fromSampleId?: string }
-  | { readonly name: 'limits-history'; readonly characteristicId: string };
+  | { readonly name: 'limits-history'; readonly characteristicId: string }
+  /** The printable report of one characteristic (preview, then the browser's print). */
+  | { readonly name: 'report'; readonly characteristicId: string };
 
 export interface AppState {
   readonly stage: 'starting' | 'enrol' | 'sign-in' | 'ready' | 'failed';

@@ -363,7 +363,7 @@ export function createPlumblineApp(deps: AppDeps) {
     },
     open(screen: Screen) {
       set({ screen, error: undefined });
-      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history') void refreshViews([screen.characteristicId]);
+      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history' || screen.name === 'report') void refreshViews([screen.characteristicId]);
       else if (screen.name === 'overview' || screen.name === 'handover') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else void refreshViews();
     },
