@@ -53,8 +53,8 @@ describe('ReportScreen', () => {
     expect(screen.getByTestId('report-phase-1').textContent).toMatch(/Phase 1.*First limits.*Baseline of 20 subgroups/);
     const rows = within(screen.getByTestId('report-signals')).getAllByTestId('report-signal-row');
     expect(rows.map((r) => r.getAttribute('data-state'))).toEqual(['closed', 'answered', 'unanswered']);
-    expect(rows[0]!.textContent).toMatch(/Point 21.*Signed off.*Clutch slipped.*Cause: Machine.*Action: Replaced the clutch spring.*Odile.*Sven.*Seen on the line\./);
-    expect(rows[1]!.textContent).toMatch(/Point 23.*Answered, awaiting sign-off.*Bar stock changed.*Cause: Material: New supplier.*Action: Quarantined the lot.*Odile.*Not yet/);
+    expect(rows[0]!.textContent).toMatch(/Point 21.*Signed off.*Clutch slipped.*Cause: Machine.*Action: Replaced the clutch spring.*Answered: Odile.*Signed off: Sven.*Seen on the line\./);
+    expect(rows[1]!.textContent).toMatch(/Point 23.*Answered, awaiting sign-off.*Bar stock changed.*Cause: Material: New supplier.*Action: Quarantined the lot.*Answered: Odile.*Signed off: not yet/);
     expect(rows[2]!.textContent).toMatch(/Point 25.*OPEN: no answer yet.*No response recorded\./);
     expect(screen.getByTestId('report-signal-summary').textContent).toBe('3 signals in this period: 1 open (no answer yet), 1 awaiting sign-off, 1 signed off.');
   });
@@ -64,7 +64,7 @@ describe('ReportScreen', () => {
     const panel = screen.getByTestId('capability-panel');
     const cautions = panel.querySelectorAll('.caution');
     expect(cautions[0]!.getAttribute('data-testid')).toBe('report-stability-caution');
-    expect(cautions[0]!.textContent).toContain('3 signals in the period of this report (1 still open)');
+    expect(cautions[0]!.textContent).toContain('3 signals in the period of this report, 1 still open');
     expect(panel.textContent).toContain('Cpk');
   });
 

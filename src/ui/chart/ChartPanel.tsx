@@ -91,12 +91,12 @@ export function ChartPanel({ view, state, actions, span }: { view: Characteristi
         <span><i class="legend-flag" />run rule fired</span>
       </div>
       <ControlChart label={label} points={main} flags={flags} phaseStarts={phaseStarts} spec={spec} decimals={isCount ? 3 : ch.decimals + 1}
-        height={320} showZones offset={from} testId="main-chart" onPick={pick} selected={selectedHere} />
+        height={span ? 260 : 320} showZones offset={from} testId="main-chart" onPick={pick} selected={selectedHere} />
       {!hasCompanion ? null : (
         <>
           <h3>{companionName}</h3>
           <ControlChart label={`${companionName} chart of ${ch.name}`} points={companion} flags={companionFlags} phaseStarts={phaseStarts}
-            decimals={ch.decimals + 1} height={160} showZones={false} offset={from} testId="companion-chart" onPick={pick} selected={selectedHere} />
+            decimals={ch.decimals + 1} height={span ? 130 : 160} showZones={false} offset={from} testId="companion-chart" onPick={pick} selected={selectedHere} />
         </>
       )}
       {phaseStarts.length ? (

@@ -110,10 +110,10 @@ function ReportSheet({ view, state, actions, period }: { view: CharacteristicVie
         </p>
         {groups.length ? (
           <div class="table-scroll" tabIndex={0} role="region" aria-label="Signals and responses (scrolls sideways)">
-            <table class="history-table report-table" data-testid="report-signals">
+            <table class="history-table report-table report-signals-table" data-testid="report-signals">
               <caption class="sr-only">Signals of {ch.name} in the period, oldest first, with what was done</caption>
               <thead>
-                <tr><th scope="col">Signal</th><th scope="col">State</th><th scope="col">Response</th><th scope="col">Answered</th><th scope="col">Signed off</th></tr>
+                <tr><th scope="col">Signal</th><th scope="col">Response</th><th scope="col">Answered and signed off</th></tr>
               </thead>
               <tbody>
                 {groups.map((g) => {
@@ -121,11 +121,11 @@ function ReportSheet({ view, state, actions, period }: { view: CharacteristicVie
                   return (
                     <tr key={g.sampleId} class={g.state === 'unanswered' ? 'report-open-row' : ''} data-testid="report-signal-row" data-state={g.state}>
                       <th scope="row">
-                        Point {g.index + 1}{sample ? `, ${formatShortDateTime(sample.takenAt)}` : ''}
+                        <span class="report-line">Point {g.index + 1}{sample ? `, ${formatShortDateTime(sample.takenAt)}` : ''}</span>
+                        <span class={`chip ${STATE_CHIP[g.state]}`}>{STATE_TEXT[g.state]}</span>
                         {g.signals.map((s) => <span class="delta" key={s.rule}>{s.explanation} ({ruleName(s.rule)})</span>)}
                         {g.lastIndex > g.index ? <span class="delta">Went on firing up to point {g.lastIndex + 1}.</span> : null}
                       </th>
-                      <td data-label="State"><span class={`chip ${STATE_CHIP[g.state]}`}>{STATE_TEXT[g.state]}</span></td>
                       <td data-label="Response">
                         {g.response ? (
                           <>
@@ -135,14 +135,12 @@ function ReportSheet({ view, state, actions, period }: { view: CharacteristicVie
                           </>
                         ) : <strong class="report-open">No response recorded.</strong>}
                       </td>
-                      <td data-label="Answered">{g.response ? `${who(g.response.respondedBy)}, ${formatShortDateTime(g.response.respondedAt)}` : '—'}</td>
-                      <td data-label="Signed off">
-                        {g.ack ? (
-                          <>
-                            {who(g.ack.by)}, {formatShortDateTime(g.ack.at)}
-                            {g.ack.note ? <span class="delta">{g.ack.note}</span> : null}
-                          </>
-                        ) : g.response ? 'Not yet' : '—'}
+                      <td data-label="Answered and signed off">
+                        <span class="report-line"><strong>Answered:</strong> {g.response ? `${who(g.response.respondedBy)}, ${formatShortDateTime(g.response.respondedAt)}` : 'not yet'}</span>
+                        {g.response ? (
+                          <span class="report-line"><strong>Signed off:</strong> {g.ack ? `${who(g.ack.by)}, ${formatShortDateTime(g.ack.at)}` : 'not yet'}</span>
+                        ) : null}
+                        {g.ack?.note ? <span class="delta">{g.ack.note}</span> : null}
                       </td>
                     </tr>
                   );
@@ -175,23 +173,26 @@ function LimitsSection({ view, state, range }: { view: CharacteristicView; state
             <caption class="sr-only">Limits of each phase of {ch.name} in the period</caption>
             <thead>
               <tr>
-                <th scope="col">Phase</th><th scope="col">Starts</th><th scope="col">Reason</th><th scope="col">Limits set by</th>
-                <th scope="col">Centre</th><th scope="col">UCL</th><th scope="col">LCL</th><th scope="col">Sigma</th><th scope="col">Points</th><th scope="col">With signals</th>
+                <th scope="col">Phase</th><th scope="col">Reason and limits</th><th scope="col">Centre</th><th scope="col">UCL</th><th scope="col">LCL</th>
+                <th scope="col">Sigma</th><th scope="col">Points</th>
               </tr>
             </thead>
             <tbody>
               {rows.map((r) => (
                 <tr key={r.number} data-testid={`report-phase-${r.number}`}>
-                  <th scope="row">Phase {r.number}</th>
-                  <td data-label="Starts">{r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</td>
-                  <td data-label="Reason">{r.reason}</td>
-                  <td data-label="Limits set by">{r.source === 'given' ? 'Given (earlier study or standard)' : `Baseline of ${r.baselineCount} subgroup${r.baselineCount === 1 ? '' : 's'}${r.provisional ? ' (provisional)' : ''}`}</td>
+                  <th scope="row">
+                    Phase {r.number}
+                    <span class="delta">from {r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</span>
+                  </th>
+                  <td data-label="Reason and limits">
+                    {r.reason}
+                    <span class="delta">{r.source === 'given' ? 'Given (earlier study or standard)' : `Baseline of ${r.baselineCount} subgroup${r.baselineCount === 1 ? '' : 's'}${r.provisional ? ' (provisional)' : ''}`}</span>
+                  </td>
                   <td data-label="Centre">{f(r.centre)}</td>
-                  <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? ' (latest)' : ''}</td>
-                  <td data-label="LCL">{f(r.lcl)}{r.limitsVary ? ' (latest)' : ''}</td>
+                  <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? <span class="delta">latest</span> : null}</td>
+                  <td data-label="LCL">{f(r.lcl)}{r.limitsVary ? <span class="delta">latest</span> : null}</td>
                   <td data-label="Sigma">{f(r.sigma)}<span class="delta">{SIGMA_METHOD_TEXT[r.sigmaMethod]}</span></td>
-                  <td data-label="Points">{r.points}</td>
-                  <td data-label="With signals">{r.signalPoints}</td>
+                  <td data-label="Points">{r.points}<span class="delta">{r.signalPoints} with signals</span></td>
                 </tr>
               ))}
             </tbody>
@@ -212,8 +213,9 @@ function CapabilitySection({ view, range, signals, openSignals }: { view: Charac
     <>
       {signals > 0 ? (
         <p class="caution" data-testid="report-stability-caution">
-          <strong>Stability first.</strong> {signals} signal{signals === 1 ? '' : 's'} in the period of this report{openSignals ? ` (${openSignals} still open)` : ''}:
-          the process is not shown to be stable, so the capability figures below may not predict what it will make.
+          <strong>Stability first.</strong> {signals} signal{signals === 1 ? '' : 's'} in the period of this report{openSignals ? `, ${openSignals} still open` : ''} (a
+          pattern that went on firing counted once): the process is not shown to be stable, so the capability figures below may not
+          predict what it will make.
         </p>
       ) : null}
       {scope?.outside && first && last ? (
