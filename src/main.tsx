@@ -1,6 +1,7 @@
 import { render } from 'preact';
 import { createPlumblineApp } from './app/create-app';
 import { estimateStorage, openAppDb, requestPersistentStorage } from './store';
+import { createAdminApi } from './sync/admin-api';
 import { createApiClient } from './sync/api-client';
 import { newRecordId } from './sync/ids';
 import { createSyncEngine } from './sync/sync-engine';
@@ -13,6 +14,7 @@ async function boot() {
     onTerminated: () => location.reload(),
   });
   const api = createApiClient({ baseUrl: `${location.origin}/api/v1` });
+  const adminApi = createAdminApi({ baseUrl: `${location.origin}/api/v1` });
   const app = createPlumblineApp({
     db,
     api,
@@ -29,6 +31,7 @@ async function boot() {
         .catch(() => undefined); // not granted or not supported: the foreground sender still runs
     },
     storage: { persist: () => requestPersistentStorage(), estimate: () => estimateStorage() },
+    adminApi,
     defaultTheme: matchMedia('(prefers-color-scheme: dark)').matches ? 'dark' : 'light',
   });
   render(<App app={app} locale={navigator.language} />, document.getElementById('app')!);

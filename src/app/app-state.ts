@@ -1,5 +1,6 @@
 import type { Analysis, Signal } from '../engine/types';
-import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, SetupRecord, Site, Station } from '../schema';
+import type { Acknowledgement, CauseList, Characteristic, Line, Person, Phase, Response, Sample, SetupRecord, Site, Station } from '../schema';
+import type { AdminActions, AdminView } from './admin-controller';
 import type { ChartSeries } from './analysis-input';
 import type { DueStatus } from './due-state';
 import type { SignalGroup } from './signal-state';
@@ -40,6 +41,8 @@ export interface SyncView {
   /** Server clock minus tablet clock, once known; `clockSkewed` when it is beyond the tolerance. */
   readonly clockOffsetMs?: number;
   readonly clockSkewed?: boolean;
+  /** An administrator withdrew this tablet: it can no longer send or receive; unsent records stay on it. */
+  readonly withdrawn?: boolean;
 }
 
 /** What the sync details sheet shows besides the sync state. */
@@ -72,7 +75,11 @@ export type Screen =
   | { readonly name: 'new-phase'; readonly characteristicId: string; readonly fromSampleId?: string }
   | { readonly name: 'limits-history'; readonly characteristicId: string }
   /** The printable report of one characteristic (preview, then the browser's print). */
-  | { readonly name: 'report'; readonly characteristicId: string };
+  | { readonly name: 'report'; readonly characteristicId: string }
+  /** CSV import of a characteristic's history (engineer and admin only). */
+  | { readonly name: 'import'; readonly characteristicId: string }
+  /** The site admin's people and tablets (admins only, online only). */
+  | { readonly name: 'admin'; readonly tab: 'people' | 'tablets' };
 
 export interface AppState {
   readonly stage: 'starting' | 'enrol' | 'sign-in' | 'ready' | 'failed';
@@ -94,6 +101,8 @@ export interface AppState {
   readonly syncDetails?: SyncDetails;
   /** Storage persistence as granted at start (null until asked or where unsupported). */
   readonly persisted: boolean | null;
+  /** The admin screens' data while they are open. */
+  readonly admin?: AdminView;
 }
 
 export interface EntryInput {
@@ -104,6 +113,12 @@ export interface EntryInput {
   readonly comment?: string;
 }
 
+/** What an import wrote: new samples, and samples this tablet already held (imported before). */
+export interface ImportOutcome {
+  readonly saved: number;
+  readonly alreadyHeld: number;
+}
+
 export interface AnswerInput {
   readonly whatHappened: string;
   readonly causeCategory: string;
@@ -112,7 +127,7 @@ export interface AnswerInput {
 }
 
 /** What the screens can ask for. Each action reports failure through `state.error`/`toast`, never by throwing into the UI. */
-export interface AppActions {
+export interface AppActions extends AdminActions {
   enrol(code: string, deviceName: string): Promise<boolean>;
   signIn(login: string, pin: string): Promise<boolean>;
   signOut(): void;
@@ -134,6 +149,11 @@ export interface AppActions {
    * change in messages. Once stored, the tablet pulls the new set-up.
    */
   saveSetup(entries: readonly SetupRecord[], what: string): Promise<boolean>;
+  /**
+   * Records checked import samples (engineer and admin only) in batches, each batch in one transaction with
+   * its outbox rows; `onProgress` after each batch. Null when nothing could be saved (state.error says why).
+   */
+  importSamples(characteristicId: string, samples: readonly Sample[], onProgress?: (done: number, total: number) => void): Promise<ImportOutcome | null>;
   setTheme(theme: 'light' | 'dark'): void;
   syncNow(): Promise<void>;
   openSyncDetails(): Promise<void>;

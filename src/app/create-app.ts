@@ -1,4 +1,4 @@
-import { SetupRecord, describeIssues, type Acknowledgement, type DeviceRecord, type Person, type Response, type Sample } from '../schema';
+import { SetupRecord, describeIssues, pinRefOf, type Acknowledgement, type DeviceRecord, type Person, type Response, type Sample } from '../schema';
 import {
   getAcksForCharacteristic,
   getSamplesForCharacteristic,
@@ -9,7 +9,9 @@ import {
   listSignedInPeople,
   resetSendingOnStart,
   listOutboxProblems,
+  removeSignedInPerson,
   saveDeviceRecord,
+  saveImportedSamples,
   saveSignedInPerson,
   getSignedInPerson,
   setDeviceIdentity,
@@ -17,6 +19,7 @@ import {
   type DeviceIdentity,
   type SignedInPerson,
 } from '../store';
+import type { AdminApi } from '../sync/admin-api';
 import { ApiError, type ApiClient } from '../sync/api-client';
 import { verifyOffline } from '../sync/offline-verifier';
 import type { SyncStatus } from '../sync/sync-engine';
@@ -27,10 +30,12 @@ import {
   type AppState,
   type CharacteristicView,
   type EntryInput,
+  type ImportOutcome,
   type Screen,
   type SignalPrompt,
   type SyncView,
 } from './app-state';
+import { createAdminController } from './admin-controller';
 import { compareSamples } from './analysis-input';
 import { buildCharacteristicView } from './build-view';
 import { entryProblem } from './entry-check';
@@ -73,10 +78,17 @@ export interface AppDeps {
   readonly requestBackgroundSync?: () => void;
   /** The theme before the person chooses one (e.g. from prefers-color-scheme). */
   readonly defaultTheme?: 'light' | 'dark';
+  /** The site admin's calls (people, tablets, enrolment codes); absent, the admin screens say so. */
+  readonly adminApi?: AdminApi;
 }
+
+/** Where a person's server session token is kept for the tab (set-up changes and the admin calls need it). */
+const sessionKey = (personId: string) => `plumbline.session.${personId}`;
 
 const SUPERVISING: readonly Person['role'][] = ['supervisor', 'engineer', 'admin'];
 const ENGINEERING: readonly Person['role'][] = ['engineer', 'admin'];
+/** Imported samples saved per transaction: big enough to be quick, small enough to keep the screen painting. */
+const IMPORT_BATCH = 500;
 
 function toPerson(p: SignedInPerson): Person {
   return { id: p.personId, name: p.name, login: p.login, role: p.role, active: true };
@@ -91,11 +103,10 @@ function syncView(s: SyncStatus): SyncView {
     ...(s.lastError ? { lastError: s.lastError } : {}),
     ...(s.progress ? { progress: s.progress } : {}),
     ...(s.clockOffsetMs !== null ? { clockOffsetMs: s.clockOffsetMs, clockSkewed: s.isClockSkewed } : {}),
+    ...(s.lastErrorCode === 'device-revoked' ? { withdrawn: true } : {}),
   };
 }
 
-/** Where a person's server session token is kept for this tab (set-up changes need it). */
-const sessionKey = (personId: string) => `plumbline.session.${personId}`;
 
 function messageOf(e: unknown): string {
   return e instanceof Error ? e.message : String(e);
@@ -251,12 +262,41 @@ export function createPlumblineApp(deps: AppDeps) {
         if (pulled > 0) {
           records.clear();
           announce('all');
-          void reloadSetup().then(() => refreshViews());
+          void reloadSetup().then(() => forgetWithdrawnPeople()).then(() => refreshViews());
         }
       }
     });
     set({ sync: syncView(sync.getStatus()) });
     sync.start();
+  }
+
+  /**
+   * People the site has withdrawn (active false in the pulled set-up) lose their offline sign-in on this
+   * tablet, and are signed out if they are the one signed in now.
+   */
+  async function forgetWithdrawnPeople() {
+    const withdrawn = new Set(state.setup.people.filter((p) => !p.active).map((p) => p.id));
+    const cached = await listSignedInPeople(db);
+    const gone = cached.filter((p) => withdrawn.has(p.personId));
+    if (gone.length === 0) return;
+    for (const p of gone) {
+      await removeSignedInPerson(db, p.login);
+      deps.session.removeItem(sessionKey(p.personId));
+    }
+    const signedIn = cached.filter((p) => !withdrawn.has(p.personId)).map(toPerson);
+    if (state.person && withdrawn.has(state.person.id)) {
+      deps.session.removeItem('plumbline.person');
+      set({
+        signedIn, stage: 'sign-in', person: undefined, prompt: undefined, admin: undefined,
+        error: `${state.person.name}'s access to this site has been withdrawn by an administrator, so they have been signed out.`,
+      });
+    } else set({ signedIn });
+  }
+
+  /** The person as the pulled set-up has them now (role changes reach offline sign-ins too). */
+  function currentPerson(known: SignedInPerson): Person {
+    const p = state.setup.people.find((x) => x.id === known.personId);
+    return p ? { ...p } : toPerson(known);
   }
 
   async function becomeReady(person: Person) {
@@ -287,17 +327,40 @@ export function createPlumblineApp(deps: AppDeps) {
       set({ device: { deviceId: identity.deviceId, deviceName: identity.deviceName, siteId: identity.siteId } });
       await reloadSetup();
       startSync(identity);
+      await forgetWithdrawnPeople();
       const people = await listSignedInPeople(db);
       const current = people.find((p) => p.personId === deps.session.getItem('plumbline.person'));
       set({ signedIn: people.map(toPerson) });
-      if (current) await becomeReady(toPerson(current));
+      if (current) await becomeReady(currentPerson(current));
       else set({ stage: 'sign-in' });
     } catch (e) {
       set({ stage: 'failed', error: `Plumbline could not open its storage on this tablet: ${messageOf(e)}` });
     }
   }
 
+  const admin = createAdminController({
+    api: deps.adminApi,
+    sessionToken: () => (state.person ? (deps.session.getItem(sessionKey(state.person.id)) ?? undefined) : undefined),
+    get: () => state.admin,
+    set: (view) => set({ admin: view }),
+    now: deps.now,
+    onPersonChanged(person) {
+      // An admin who changed themself now has the role the server gave them, or is signed out.
+      if (state.person?.id !== person.id) return true;
+      if (!person.active) {
+        actions.signOut();
+        set({ error: 'You have withdrawn your own access to this site, so you have been signed out.' });
+        return false;
+      }
+      if (person.role === 'admin') return true;
+      set({ person, screen: { name: 'board' }, admin: undefined });
+      toast(`You are now ${person.role === 'engineer' ? 'an' : 'a'} ${person.role} at this site`);
+      return false;
+    },
+  });
+
   const actions: AppActions = {
+    ...admin,
     async enrol(code, deviceName) {
       try {
         const res = await api.enrolDevice({ code, deviceName });
@@ -319,39 +382,56 @@ export function createPlumblineApp(deps: AppDeps) {
       if (!identity) return false;
       try {
         const res = await api.signIn(identity.deviceToken, { login, pin });
-        deps.session.setItem(sessionKey(res.person.id), res.sessionToken);
         await saveSignedInPerson(db, {
           personId: res.person.id, login: res.person.login, name: res.person.name, role: res.person.role,
           offlineVerifier: res.offlineVerifier, signedInAt: deps.now(),
         });
+        deps.session.setItem(sessionKey(res.person.id), res.sessionToken);
         await becomeReady(res.person);
         return true;
       } catch (e) {
-        if (e instanceof ApiError && (e.code === 'offline' || e.code === 'server' || e.code === 'bad-response')) {
-          // No server: people who signed in on this tablet before can sign in against their cached verifier.
+        const noServer = e instanceof ApiError && (e.code === 'offline' || e.code === 'server' || e.code === 'bad-response');
+        // A withdrawn tablet still lets people who signed in here before in, so that what it holds stays in view.
+        const withdrawnTablet = e instanceof ApiError && e.details.serverCode === 'device-revoked';
+        if (noServer || withdrawnTablet) {
+          // No server: people who signed in on this tablet before can sign in against their cached verifier,
+          // unless the set-up pulled since says the site has withdrawn their access.
+          const wanted = login.trim().toLowerCase();
+          const inSetup = state.setup.people.find((p) => p.login.toLowerCase() === wanted && p.active)
+            ?? state.setup.people.find((p) => p.login.toLowerCase() === wanted);
+          if (inSetup && !inSetup.active) {
+            set({ error: `This person is no longer active on this site: ${inSetup.name}'s access has been withdrawn by an administrator.` });
+            return false;
+          }
           const known = await getSignedInPerson(db, login);
-          if (known && state.setup.people.some((p) => p.id === known.personId && !p.active)) {
-            set({ error: 'This person is no longer active on this site.' });
+          if (known && inSetup?.pinRef && inSetup.id === known.personId && (await pinRefOf(known.offlineVerifier.salt)) !== inSetup.pinRef) {
+            // The site admin has set a new PIN since this person last signed in here online.
+            set({ error: `${inSetup.name}'s PIN has been changed by the site admin. Sign in once while the tablet is online, with the new PIN.` });
             return false;
           }
           if (known && (await verifyOffline(pin, known.offlineVerifier))) {
-            await becomeReady(toPerson(known));
+            await becomeReady(currentPerson(known));
             return true;
+          }
+          if (withdrawnTablet && !known) {
+            set({ error: messageOf(e) });
+            return false;
           }
           set({ error: known ? 'Login or PIN is not right.' : 'The server cannot be reached, and this person has not signed in on this tablet before.' });
           return false;
         }
-        // Only the sign-in refusal means a wrong login or PIN; a withdrawn tablet gets the server's own words.
+        // Only the sign-in refusal means a wrong login or PIN; a withdrawn person gets the server's own words.
         const wrongPin = e instanceof ApiError && e.code === 'unauthorized' && (e.details.serverCode ?? 'sign-in-failed') === 'sign-in-failed';
-        set({ error: wrongPin ? 'Login or PIN is not right.' : messageOf(e) });
+        set({ error: wrongPin ? 'Login or PIN is not right.' : e instanceof ApiError && e.serverMessage ? e.serverMessage : messageOf(e) });
         return false;
       }
     },
 
     signOut() {
       deps.session.removeItem('plumbline.person');
+      // The server session ends with the sign-out here: the next person at the tablet cannot act on it.
       if (state.person) deps.session.removeItem(sessionKey(state.person.id));
-      set({ stage: 'sign-in', person: undefined, prompt: undefined, error: undefined });
+      set({ stage: 'sign-in', person: undefined, prompt: undefined, error: undefined, admin: undefined });
     },
     addPerson() {
       set({ stage: 'sign-in', error: undefined });
@@ -363,8 +443,12 @@ export function createPlumblineApp(deps: AppDeps) {
     },
     open(screen: Screen) {
       set({ screen, error: undefined });
-      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history' || screen.name === 'report') void refreshViews([screen.characteristicId]);
+      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history' || screen.name === 'import' || screen.name === 'report') void refreshViews([screen.characteristicId]);
       else if (screen.name === 'overview' || screen.name === 'handover') void refreshViews(state.setup.characteristics.map((c) => c.id));
+      else if (screen.name === 'admin') {
+        if (state.person?.role !== 'admin') return set({ screen: { name: 'board' }, error: 'Only a site admin can manage people and tablets.' });
+        void admin.adminReload(); // online only: always what the server says now
+      }
       else void refreshViews();
     },
 
@@ -506,6 +590,41 @@ export function createPlumblineApp(deps: AppDeps) {
       return sendSetup(entries, what);
     },
 
+    async importSamples(characteristicId, samples, onProgress) {
+      if (!identity || !state.person) return null;
+      if (!ENGINEERING.includes(state.person.role)) {
+        set({ error: 'Only a quality engineer (or admin) can import history.' });
+        return null;
+      }
+      if (samples.some((s) => s.characteristicId !== characteristicId)) {
+        set({ error: 'The import was NOT saved: some samples belong to another characteristic.' });
+        return null;
+      }
+      let saved = 0;
+      let alreadyHeld = 0;
+      let failed = false;
+      try {
+        for (let i = 0; i < samples.length; i += IMPORT_BATCH) {
+          const r = await saveImportedSamples(db, samples.slice(i, i + IMPORT_BATCH), deps.now());
+          saved += r.saved;
+          alreadyHeld += r.alreadyHeld;
+          onProgress?.(Math.min(i + IMPORT_BATCH, samples.length), samples.length);
+          // Let the screen paint between batches: a big file must not freeze it.
+          await new Promise((resolve) => setTimeout(resolve, 0));
+        }
+      } catch (e) {
+        failed = true;
+        set({ error: `The import stopped: ${saved} sample${saved === 1 ? ' was' : 's were'} saved, the rest was NOT saved: ${messageOf(e)}` });
+      }
+      // The in-memory copy is read again from IndexedDB (a sort of thousands of appends would cost more).
+      records.delete(characteristicId);
+      announce([characteristicId]);
+      await refreshViews([characteristicId]);
+      if (saved > 0) sendSoon();
+      const outcome: ImportOutcome = { saved, alreadyHeld };
+      return failed && saved === 0 ? null : outcome;
+    },
+
     setTheme(theme) {
       deps.prefs.setItem('plumbline.theme', theme);
       set({ theme });
@@ -587,6 +706,8 @@ export function createPlumblineApp(deps: AppDeps) {
       ...kept,
       ...(patch.values ? { values: patch.values, count: undefined, inspected: undefined } : {}),
       ...patch,
+      // Corrected values were typed here, not read from the file: the import note stays with the original.
+      ...(patch.values || patch.count !== undefined || patch.inspected !== undefined ? { imported: undefined } : {}),
       kind: 'sample', id: deps.newId(), supersedes: original.id,
       recordedBy: state.person!.id, deviceId: identity!.deviceId,
     };

@@ -38,6 +38,7 @@ interface WasmApi {
 }
 
 let kernel: ZoneKernel | null | undefined;
+let made: ZoneKernel | null | undefined; // the one instance (compiled once; its code warms up with use)
 // Batches shorter than this are classified in JavaScript: copying them into the kernel's memory
 // and calling it costs more than it saves.
 let minimum = 256;
@@ -45,8 +46,13 @@ let minimum = 256;
 /** The kernel for a batch of n points, or null: batch too short, or no kernel in this JavaScript engine. */
 export function zoneKernel(n: number): ZoneKernel | null {
   if (n < minimum) return null;
-  if (kernel === undefined) kernel = makeKernel();
+  if (kernel === undefined) kernel = instance();
   return kernel;
+}
+
+function instance(): ZoneKernel | null {
+  if (made === undefined) made = makeKernel();
+  return made;
 }
 
 /**
@@ -55,7 +61,7 @@ export function zoneKernel(n: number): ZoneKernel | null {
  */
 export function useZoneKernel(mode: 'auto' | 'always' | 'never'): void {
   minimum = mode === 'always' ? 1 : 256;
-  kernel = mode === 'never' ? null : makeKernel();
+  kernel = mode === 'never' ? null : instance();
   if (mode === 'always' && !kernel) throw new Error('no WebAssembly SIMD here');
 }
 

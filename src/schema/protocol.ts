@@ -29,8 +29,14 @@ export type SignInResponse = z.infer<typeof SignInResponse>;
 export const PushRequest = z.object({
   batchId: RecordId,
   records: z.array(z.unknown()).check(z.minLength(1), z.maxLength(MAX_PUSH_RECORDS)),
+  /**
+   * The tablet's sequence number of each record (same order), counting every record it ever made
+   * from 1 without gaps: the server lists which numbers it never received (sync.md: a wiped tablet's
+   * unsent records show as a gap). Optional: older tablets do not send it.
+   */
+  deviceSeqs: z.optional(z.array(z.int().check(z.minimum(1)))),
 });
-export type PushRequest = { batchId: string; records: DeviceRecord[] };
+export type PushRequest = { batchId: string; records: DeviceRecord[]; deviceSeqs?: number[] };
 
 export const PushStatus = z.enum(['stored', 'duplicate', 'conflict', 'rejected']);
 export type PushStatus = z.infer<typeof PushStatus>;

@@ -23,6 +23,8 @@ export const Sample = z.object({
   reason: OptionalText(400),
   /** Excluded from limit calculation (engineer only, with a reason). */
   excluded: z.optional(z.boolean()),
+  /** Set when the sample came from a history file (CSV import) rather than from entry at the machine. */
+  imported: z.optional(z.object({ file: NonEmptyText(200), line: z.int().check(z.minimum(1)) })),
 });
 export type Sample = z.infer<typeof Sample>;
 

@@ -93,6 +93,11 @@ export const Person = z.object({
   login: NonEmptyText(40),
   role: Role,
   active: z.boolean(),
+  /**
+   * Names the PIN in force (see pinRefOf in admin.ts: from its offline verifier's salt). A tablet whose
+   * cached verifier names another PIN does not take it offline: a PIN reset reaches tablets at their next sync.
+   */
+  pinRef: z.optional(z.string().check(z.regex(/^[0-9a-f]{16}$/))),
 });
 export type Person = z.infer<typeof Person>;
 

@@ -74,9 +74,9 @@ export function recordActor(record: DeviceRecord): { personId: string; clientTim
 function actorOf(record: DeviceRecord): { personId: string; clientTime: string; minimumRole: Role; action: string } {
   switch (record.kind) {
     case 'sample':
-      return record.excluded
-        ? { personId: record.recordedBy, clientTime: record.takenAt, minimumRole: 'engineer', action: 'exclude a sample from the limits' }
-        : { personId: record.recordedBy, clientTime: record.takenAt, minimumRole: 'operator', action: 'record a sample' };
+      if (record.excluded) return { personId: record.recordedBy, clientTime: record.takenAt, minimumRole: 'engineer', action: 'exclude a sample from the limits' };
+      if (record.imported) return { personId: record.recordedBy, clientTime: record.takenAt, minimumRole: 'engineer', action: 'import history' };
+      return { personId: record.recordedBy, clientTime: record.takenAt, minimumRole: 'operator', action: 'record a sample' };
     case 'response':
       return { personId: record.respondedBy, clientTime: record.respondedAt, minimumRole: 'operator', action: 'answer a signal' };
     case 'ack':

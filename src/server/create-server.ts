@@ -4,6 +4,7 @@ import { HttpError } from './http-error';
 import { RateLimiter } from './rate-limiter';
 import { registerAdminDevicesRoutes } from './routes/admin-devices';
 import { registerAdminEnrolmentCodesRoute } from './routes/admin-enrolment-codes';
+import { registerAdminPeopleRoutes } from './routes/admin-people';
 import { registerAdminPinRoute } from './routes/admin-pin';
 import { registerEnrolRoute } from './routes/enrol';
 import { registerHealthRoute } from './routes/health';
@@ -93,6 +94,7 @@ export function createServer(options: CreateServerOptions): FastifyInstance {
   registerAdminEnrolmentCodesRoute(app, ctx);
   registerAdminPinRoute(app, ctx);
   registerAdminDevicesRoutes(app, ctx);
+  registerAdminPeopleRoutes(app, ctx);
   registerSetupRoute(app, ctx);
   return app;
 }

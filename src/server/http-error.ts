@@ -17,6 +17,9 @@ export type ErrorCode =
   | 'enrolment-code-used'
   | 'enrolment-code-expired'
   | 'sign-in-failed'
+  | 'person-inactive'
+  | 'login-taken'
+  | 'last-admin'
   | 'rate-limited'
   | 'internal';
 

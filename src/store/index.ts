@@ -6,3 +6,4 @@ export * from './setup-store';
 export * from './outbox-store';
 export * from './meta-store';
 export * from './storage-health';
+export * from './save-imported';

@@ -28,6 +28,8 @@ export class ApiError extends Error {
     readonly code: ApiErrorCode,
     message: string,
     readonly details: { status?: number; serverCode?: string; retryAfterMs?: number } = {},
+    /** The server's own sentence for a person, when it sent one (ErrorBody.message). */
+    readonly serverMessage?: string,
   ) {
     super(message);
     this.name = 'ApiError';
@@ -60,16 +62,20 @@ const PullEnvelope = z.object({
   hasMore: z.boolean(),
 });
 
-interface CallOptions {
+export interface CallOptions {
   method: 'GET' | 'POST';
   path: string;
   token?: string;
-  /** A person's session token (set-up changes), sent in the x-plumbline-session header. */
+  /** A person's session token (the admin routes), sent in SESSION_HEADER. */
   session?: string;
   body?: unknown;
 }
 
-async function call<T>(config: ApiConfig, options: CallOptions, schema: z.ZodMiniType<T>): Promise<T> {
+/** Header of a person's session token (the server's auth.ts reads it). */
+export const SESSION_HEADER = 'x-plumbline-session';
+
+/** One API call: the answer checked against `schema` (a 204 answer is checked as null), failures as ApiError. */
+export async function call<T>(config: ApiConfig, options: CallOptions, schema: z.ZodMiniType<T>): Promise<T> {
   return (await callWithDate(config, options, schema)).data;
 }
 
@@ -82,7 +88,7 @@ async function callWithDate<T>(
   const now = config.now ?? Date.now;
   const headers: Record<string, string> = { [PROTOCOL_HEADER]: String(PROTOCOL_VERSION), accept: 'application/json' };
   if (options.token !== undefined) headers.authorization = `Bearer ${options.token}`;
-  if (options.session !== undefined) headers['x-plumbline-session'] = options.session;
+  if (options.session !== undefined) headers[SESSION_HEADER] = options.session;
   if (options.body !== undefined) headers['content-type'] = 'application/json';
   const controller = new AbortController();
   const timer = setTimeout(() => controller.abort(), config.timeoutMs ?? 30_000);
@@ -103,6 +109,7 @@ async function callWithDate<T>(
     clearTimeout(timer);
   }
 
+  if (response.status === 204) text = 'null';
   let json: unknown;
   let isJson = true;
   try {
@@ -117,10 +124,11 @@ async function callWithDate<T>(
     const serverMessage = errorBody?.success ? errorBody.data.message : `HTTP ${status}`;
     const retryAfterMs = parseRetryAfter(response.headers.get('retry-after'), now());
     const details = { status, ...(serverCode !== undefined ? { serverCode } : {}), ...(retryAfterMs !== undefined ? { retryAfterMs } : {}) };
-    if (status === 401 || status === 403) throw new ApiError('unauthorized', `Not allowed: ${serverMessage}`, details);
-    if (status === 426) throw new ApiError('protocol-mismatch', `This app version no longer matches the server: ${serverMessage}`, details);
-    if (status >= 500 || status === 408 || status === 429) throw new ApiError('server', `The sync server is unavailable: ${serverMessage}`, details);
-    if (status >= 400) throw new ApiError('rejected', `The sync server refused the request: ${serverMessage}`, details);
+    const said = errorBody?.success ? serverMessage : undefined;
+    if (status === 401 || status === 403) throw new ApiError('unauthorized', `Not allowed: ${serverMessage}`, details, said);
+    if (status === 426) throw new ApiError('protocol-mismatch', `This app version no longer matches the server: ${serverMessage}`, details, said);
+    if (status >= 500 || status === 408 || status === 429) throw new ApiError('server', `The sync server is unavailable: ${serverMessage}`, details, said);
+    if (status >= 400) throw new ApiError('rejected', `The sync server refused the request: ${serverMessage}`, details, said);
     throw new ApiError('bad-response', `Unexpected answer from the sync server (HTTP ${status}).`, details);
   }
   if (!isJson) throw new ApiError('bad-response', 'The sync server did not answer with JSON (a login page or proxy?).', { status });
@@ -154,7 +162,7 @@ export async function signIn(config: ApiConfig, deviceToken: string, request: Si
 export function pushRecords(
   config: ApiConfig,
   deviceToken: string,
-  request: { batchId: string; records: readonly DeviceRecord[] },
+  request: { batchId: string; records: readonly DeviceRecord[]; deviceSeqs?: readonly number[] },
 ): Promise<PushResponse> {
   return call(config, { method: 'POST', path: '/sync/push', token: deviceToken, body: request }, PushResponse);
 }
@@ -181,7 +189,7 @@ export async function postSetup(config: ApiConfig, deviceToken: string, sessionT
 
 /** The calls the sync engine needs; a fake can stand in for tests. */
 export interface SyncApi {
-  pushRecords(deviceToken: string, request: { batchId: string; records: readonly DeviceRecord[] }): Promise<PushResponse>;
+  pushRecords(deviceToken: string, request: { batchId: string; records: readonly DeviceRecord[]; deviceSeqs?: readonly number[] }): Promise<PushResponse>;
   pullEntries(deviceToken: string, after: number, limit?: number): Promise<PullPage>;
 }
 

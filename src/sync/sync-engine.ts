@@ -23,8 +23,16 @@ import { newRecordId } from './ids';
 
 export type SyncState = 'idle' | 'syncing' | 'offline' | 'error';
 
-/** Why a run stopped, beyond the API's own codes. */
-export type SyncErrorCode = ApiErrorCode | 'not-enrolled' | 'storage' | 'server-misbehaving';
+/**
+ * Why a run stopped, beyond the API's own codes. 'device-revoked': an administrator withdrew this tablet;
+ * its unsent records stay in the outbox (pending, never dropped) and on its charts.
+ */
+export type SyncErrorCode = ApiErrorCode | 'not-enrolled' | 'storage' | 'server-misbehaving' | 'device-revoked';
+
+/** The run's failure code for an API error: a withdrawn tablet is told apart from other refusals. */
+function codeOf(error: ApiError): SyncErrorCode {
+  return error.code === 'unauthorized' && error.details.serverCode === 'device-revoked' ? 'device-revoked' : error.code;
+}
 
 /** Plain data for the status line; `pending` counts records not yet acknowledged by the server. */
 export interface SyncStatus {
@@ -215,7 +223,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       const at = now() + nextDelay(attempts - 1, random, backoff, retryAfterMs);
       await markSendFailed(db, items.map((i) => i.row.id), error.message, at);
       report.retryLater += items.length;
-      if (error instanceof ApiError) throw new RunFailure(error.code, error.message, retryAfterMs);
+      if (error instanceof ApiError) throw new RunFailure(codeOf(error), error.message, retryAfterMs);
       throw error;
     };
 
@@ -225,7 +233,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
       await markSending(db, ids, now());
       let response;
       try {
-        response = await api.pushRecords(token, { batchId: newBatchId(), records: items.map((i) => i.record) });
+        response = await api.pushRecords(token, { batchId: newBatchId(), records: items.map((i) => i.record), deviceSeqs: items.map((i) => i.row.deviceSeq) });
       } catch (e) {
         const error = e instanceof ApiError ? e : new ApiError('bad-response', e instanceof Error ? e.message : String(e));
         if (error.code === 'rejected' && isContentRefusal(error.details.status)) {
@@ -327,7 +335,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
         e instanceof RunFailure
           ? e
           : e instanceof ApiError
-            ? new RunFailure(e.code, e.message, e.details.retryAfterMs)
+            ? new RunFailure(codeOf(e), e.message, e.details.retryAfterMs)
             : new RunFailure('storage', `Sync stopped by a storage problem: ${e instanceof Error ? e.message : String(e)}`);
       report.error = { code: failure.code, message: failure.message };
       lastRetryAfterMs = failure.retryAfterMs;

@@ -1,10 +1,12 @@
 import { useEffect, useMemo } from 'preact/hooks';
 import { decimalSeparatorFor } from '../app/number-entry';
+import { AdminScreen } from './admin/AdminScreen';
 import { CharacteristicScreen } from './CharacteristicScreen';
 import { EnrolScreen } from './EnrolScreen';
 import { SignalPromptSheet } from './SignalPromptSheet';
 import { SignInScreen } from './SignInScreen';
 import { HandoverScreen } from './HandoverScreen';
+import { ImportScreen } from './import/ImportScreen';
 import { SiteOverview } from './SiteOverview';
 import { SyncSheet } from './SyncSheet';
 import { StationBoard } from './StationBoard';
@@ -14,6 +16,7 @@ import { LimitsHistoryScreen } from './setup/LimitsHistoryScreen';
 import { PhaseScreen } from './setup/PhaseScreen';
 import { ReportScreen } from './report/ReportScreen';
 import { SetupScreen } from './setup/SetupScreen';
+import { WithdrawnNotice } from './WithdrawnNotice';
 import { useAppState, type AppHandle } from './use-app';
 
 export function App({ app, locale }: { app: AppHandle; locale: string }) {
@@ -31,6 +34,7 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
   else if (state.stage === 'enrol') body = <EnrolScreen state={state} actions={actions} />;
   else if (state.stage === 'sign-in') body = <SignInScreen state={state} actions={actions} />;
   else if (state.screen.name === 'characteristic') body = <CharacteristicScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
+  else if (state.screen.name === 'import') body = <ImportScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} separator={separator} />;
   else if (state.screen.name === 'overview') body = <SiteOverview state={state} actions={actions} />;
   else if (state.screen.name === 'handover') body = <HandoverScreen state={state} actions={actions} />;
   else if (state.screen.name === 'setup') body = <SetupScreen state={state} actions={actions} />;
@@ -42,10 +46,12 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
     body = <PhaseScreen key={`${characteristicId}:${fromSampleId ?? ''}`} state={state} actions={actions} characteristicId={characteristicId} fromSampleId={fromSampleId} />;
   } else if (state.screen.name === 'limits-history') body = <LimitsHistoryScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
   else if (state.screen.name === 'report') body = <ReportScreen key={state.screen.characteristicId} state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
+  else if (state.screen.name === 'admin') body = <AdminScreen state={state} actions={actions} tab={state.screen.tab} />;
   else body = <StationBoard state={state} actions={actions} />;
   return (
     <div class="shell">
       <TopBar state={state} actions={actions} />
+      <WithdrawnNotice state={state} />
       {state.stage === 'ready' && state.error ? <p class="caution" role="alert" style="margin:12px 20px 0">{state.error}</p> : null}
       {body}
       {state.stage === 'ready' && state.prompt && promptChar ? (

@@ -70,6 +70,9 @@ export function CharacteristicScreen({ state, actions, characteristicId, separat
                 <>
                   <button type="button" class="btn small" data-testid="open-new-phase" onClick={() => actions.open({ name: 'new-phase', characteristicId })}>Start a new phase</button>
                   <button type="button" class="btn small" data-testid="edit-characteristic" onClick={() => actions.open({ name: 'edit-characteristic', characteristicId })}>Change set-up</button>
+                  <button type="button" class="btn small" data-testid="import-csv" onClick={() => actions.open({ name: 'import', characteristicId })}>
+                    Import history (CSV)
+                  </button>
                 </>
               ) : null}
             </div>

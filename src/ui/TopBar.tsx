@@ -14,6 +14,7 @@ export function describeSync(s: SyncView): { text: string; tone: 'clear' | 'wait
     const p = s.progress;
     return { text: p ? `Sending ${p.pushed}/${p.toPush} · received ${p.pulled}` : 'Sending…', tone: 'waiting' };
   }
+  if (s.withdrawn) return { text: `${waiting} · tablet withdrawn`, tone: 'failing' };
   if (s.state === 'offline') return { text: `${waiting} · no connection`, tone: s.pending ? 'waiting' : 'clear' };
   if (s.state === 'error') return { text: `${waiting} · last try failed`, tone: 'failing' };
   if (s.rejected > 0) return { text: `${waiting} · ${s.rejected} refused by server`, tone: 'failing' };
@@ -53,6 +54,12 @@ export function TopBar({ state, actions }: { state: AppState; actions: AppAction
       </button>
       {state.stage === 'ready' && (state.person?.role === 'engineer' || state.person?.role === 'admin') ? (
         <button type="button" class="pill" onClick={() => actions.open({ name: 'setup' })} data-testid="open-setup">Set-up</button>
+      ) : null}
+      {state.stage === 'ready' && state.person?.role === 'admin' ? (
+        <button type="button" class="pill" onClick={() => actions.open({ name: 'admin', tab: 'people' })} data-testid="open-admin"
+          aria-current={state.screen.name === 'admin' ? 'page' : undefined}>
+          People &amp; tablets
+        </button>
       ) : null}
       {state.person ? (
         <button type="button" class="pill" onClick={() => actions.signOut()} data-testid="person-pill" title="Change person">

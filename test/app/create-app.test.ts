@@ -355,10 +355,12 @@ describe('people and navigation', () => {
     await t.settle();
   });
 
-  it('an inactive person cannot sign in', async () => {
+  it('an inactive person cannot sign in, and is told why once the PIN is right', async () => {
     const t = await enrolled();
     expect(await t.app.actions.signIn('gone', '4567')).toBe(false);
-    expect(t.app.getState()).toMatchObject({ stage: 'sign-in', error: 'Login or PIN is not right.' });
+    expect(t.app.getState()).toMatchObject({ stage: 'sign-in', error: "Gone Test's access to this site has been withdrawn by an administrator; ask the site admin if this is a mistake." });
+    expect(await t.app.actions.signIn('gone', '9999')).toBe(false);
+    expect(t.app.getState().error).toBe('Login or PIN is not right.');
   });
 
   it('a tablet an administrator has withdrawn is told so, not that the PIN is wrong', async () => {

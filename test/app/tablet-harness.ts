@@ -8,6 +8,7 @@ import { afterEach, beforeEach, expect } from 'vitest';
 import type { Sample } from '../../src/schema';
 import { createPlumblineApp, type PlumblineApp, type SmallStorage, type SyncPort } from '../../src/app/create-app';
 import { getDeviceRecord, saveDeviceRecord, type AppDb } from '../../src/store';
+import { createAdminApi } from '../../src/sync/admin-api';
 import { createApiClient } from '../../src/sync/api-client';
 import { createRecordIdGenerator } from '../../src/sync/ids';
 import { createSyncEngine } from '../../src/sync/sync-engine';
@@ -73,7 +74,8 @@ function injectFetch(net: { online: boolean }): typeof fetch {
     });
     const headers = new Headers();
     for (const [k, v] of Object.entries(res.headers)) if (v !== undefined) headers.set(k, String(v));
-    return new Response(res.body, { status: res.statusCode, headers });
+    // A 204 answer may carry no body at all (the Response constructor refuses even an empty one).
+    return new Response(res.statusCode === 204 ? null : res.body, { status: res.statusCode, headers });
   }) as unknown as typeof fetch;
 }
 
@@ -101,7 +103,8 @@ export async function tablet(opts: { db?: AppDb; session?: ReturnType<typeof mem
   };
   const ids = createRecordIdGenerator(() => clock.t);
   const session = opts.session ?? memoryStorage();
-  const app = createPlumblineApp({ db, api, createSync, now: () => clock.t, newId: ids, session, prefs: memoryStorage() });
+  const adminApi = createAdminApi({ baseUrl: BASE, fetch: injectFetch(net), now: () => clock.t });
+  const app = createPlumblineApp({ db, api, adminApi, createSync, now: () => clock.t, newId: ids, session, prefs: memoryStorage() });
   // The app also starts work it does not return (the reload after a sync run, open(), selectStation()):
   // settle waits until no sync run is pending and the state has been quiet for a while.
   let changes = 0;

@@ -24,6 +24,21 @@ describeBackends('admin device routes', (backend) => {
       expect(res.body).not.toMatch(/token/i);
     });
 
+    it('says when each tablet last sent records and last had someone sign in', async () => {
+      const before = (await api(server, 'GET', '/api/v1/admin/devices', { session: adminSession })).json().devices as Record<string, unknown>[];
+      expect(before.find((d) => d.id === lineTablet.deviceId)).toMatchObject({ name: 'Line tablet', lastUploadAt: null, lastSignInAt: null, revokedAt: null });
+      server.advance(60_000);
+      const signedInAt = server.now().toISOString();
+      await signIn(server, lineTablet.deviceToken, 'odile', '1234');
+      server.advance(60_000);
+      const sentAt = server.now().toISOString();
+      const push = await api(server, 'POST', '/api/v1/sync/push', { device: lineTablet.deviceToken, body: { batchId: testUuid(), records: [makeSample(lineTablet.deviceId)] } });
+      expect(push.statusCode).toBe(200);
+      const after = (await api(server, 'GET', '/api/v1/admin/devices', { session: adminSession })).json().devices as Record<string, unknown>[];
+      expect(after.find((d) => d.id === lineTablet.deviceId)).toMatchObject({ lastUploadAt: sentAt, lastSignInAt: signedInAt });
+      expect(after.find((d) => d.id === adminTablet.deviceId)).toMatchObject({ lastUploadAt: null, lastSignInAt: expect.any(String) });
+    });
+
     it('withdraws a tablet: its pushes, pulls and sessions stop at once', async () => {
       const operatorSession = await signIn(server, lineTablet.deviceToken, 'odile', '1234');
       const res = await api(server, 'POST', `/api/v1/admin/devices/${lineTablet.deviceId}/revoke`, { session: adminSession });

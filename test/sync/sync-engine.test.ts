@@ -254,6 +254,23 @@ describe('sync engine', () => {
     expect(await getOutboxRow(h.db, badId)).toMatchObject({ state: 'rejected', lastError: expect.stringMatching(/too large/) });
   });
 
+  it('sends each record with its device sequence number, so the server can tell which numbers never arrived', async () => {
+    const h = await harness();
+    const ids = await saveSamples(h, 3);
+    const api = createApiClient({ baseUrl: BASE_URL, fetch: h.server.fetch });
+    const sent: { id: string; seq: number | undefined }[] = [];
+    const spy: SyncApi = {
+      pullEntries: api.pullEntries,
+      pushRecords: (token, request) => {
+        request.records.forEach((r, i) => sent.push({ id: r.id, seq: request.deviceSeqs?.[i] }));
+        return api.pushRecords(token, request);
+      },
+    };
+    const h2 = await harness({ api: spy }, h.db, h.server);
+    await h2.engine.syncNow();
+    expect(sent).toEqual(ids.map((id, i) => ({ id, seq: i + 1 })));
+  });
+
   it('does not turn the outbox into rejections when the push route answers 404 (wrong address)', async () => {
     const h = await harness();
     const ids = await saveSamples(h, 3);

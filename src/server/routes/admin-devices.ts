@@ -2,20 +2,32 @@ import type { FastifyInstance } from 'fastify';
 import { authenticateSession, requireRole } from '../auth';
 import { HttpError } from '../http-error';
 import type { ServerContext } from '../server-context';
-import type { DeviceRow } from '../store/server-store';
-
-export interface DeviceListResponse {
-  readonly devices: readonly DeviceRow[];
-}
+import type { DeviceListResponse } from '../../schema/index';
+import type { SeqCoverage } from '../store/server-store';
 
 /**
- * GET /api/v1/admin/devices (admin session) → {devices}: the site's enrolled tablets.
+ * GET /api/v1/admin/devices (admin session) → {devices}: the site's enrolled tablets, with when each last
+ *   sent records and last had someone sign in (what the server knows of them; it does not log pulls), and
+ *   which of its record numbers arrived: how many, the highest, and the numbers below it never received.
  * POST /api/v1/admin/devices/:id/revoke (admin session) → 204: the tablet's token stops working.
  */
 export function registerAdminDevicesRoutes(app: FastifyInstance, ctx: ServerContext): void {
   app.get('/api/v1/admin/devices', async (request): Promise<DeviceListResponse> => {
     const siteId = await adminSite(ctx, request, 'list tablets');
-    return { devices: await ctx.store.listDevices(siteId) };
+    const [devices, activity, coverage] = await Promise.all([ctx.store.listDevices(siteId), ctx.store.listDeviceActivity(siteId), ctx.store.listSeqCoverage(siteId)]);
+    const byId = new Map(activity.map((a) => [a.deviceId, a]));
+    const seqsOf = new Map(coverage.map((c) => [c.deviceId, c]));
+    return {
+      devices: devices.map((d) => ({
+        id: d.id,
+        name: d.name,
+        enrolledAt: d.enrolledAt,
+        revokedAt: d.revokedAt,
+        lastUploadAt: byId.get(d.id)?.lastUploadAt ?? null,
+        lastSignInAt: byId.get(d.id)?.lastSignInAt ?? null,
+        ...seqFields(seqsOf.get(d.id)),
+      })),
+    };
   });
 
   app.post<{ Params: { id: string } }>('/api/v1/admin/devices/:id/revoke', async (request, reply) => {
@@ -26,6 +38,11 @@ export function registerAdminDevicesRoutes(app: FastifyInstance, ctx: ServerCont
     request.log.info({ deviceId: device.id }, 'device revoked');
     return reply.code(204).send();
   });
+}
+
+// The tablet's record numbers as the admin screen shows them (none for a tablet that never sent any).
+function seqFields(c: SeqCoverage | undefined): { records?: { received: number; highest: number; missing: number; gaps: { from: number; to: number }[] } } {
+  return c ? { records: { received: c.received, highest: c.highest, missing: c.missing, gaps: c.gaps.map((g) => ({ from: g.from, to: g.to })) } } : {};
 }
 
 async function adminSite(ctx: ServerContext, request: Parameters<typeof authenticateSession>[1], action: string): Promise<string> {

@@ -1,5 +1,5 @@
 import type { FastifyInstance } from 'fastify';
-import { SetupRecord, z, type Role } from '../../schema/index';
+import { SetupRecord, z, type Person, type Role } from '../../schema/index';
 import { authenticateSession, requireRole } from '../auth';
 import { HttpError } from '../http-error';
 import { parseInput } from '../parse-input';
@@ -32,7 +32,7 @@ export interface SetupChangeResponse {
 export function registerSetupRoute(app: FastifyInstance, ctx: ServerContext): void {
   app.post('/api/v1/setup', async (request): Promise<SetupChangeResponse> => {
     const { person, siteId } = await authenticateSession(ctx, request);
-    const { entries } = parseInput(SetupChangeRequest, request.body, 'set-up change');
+    const entries = await keepPinRefs(ctx.store, parseInput(SetupChangeRequest, request.body, 'set-up change').entries);
 
     const inBatch = new Set<string>();
     for (const entry of entries) {
@@ -41,6 +41,7 @@ export function registerSetupRoute(app: FastifyInstance, ctx: ServerContext): vo
       await checkParent(ctx.store, siteId, entry, inBatch);
       inBatch.add(`${entry.kind}:${entry.id}`);
     }
+    await checkAdminKept(ctx.store, siteId, entries);
     const seqs = await ctx.store.appendSetup(entries.map((record) => ({ siteId, record })), ctx.now().toISOString());
     request.log.info({ by: person.id, count: entries.length }, 'set-up changed');
     return {
@@ -48,6 +49,29 @@ export function registerSetupRoute(app: FastifyInstance, ctx: ServerContext): vo
       results: entries.map((e, i) => ({ kind: e.kind, id: e.id, serverSeq: seqs[i] ?? 0 })),
     };
   });
+}
+
+/** A person entry sent without pinRef keeps the one in force (set-up screens do not handle PINs). */
+async function keepPinRefs(store: ServerStore, entries: readonly SetupRecord[]): Promise<SetupRecord[]> {
+  const out: SetupRecord[] = [];
+  for (const e of entries) {
+    const pinRef = e.kind === 'person' && e.body.pinRef === undefined ? (await store.getSetup('person', e.id))?.body.pinRef : undefined;
+    out.push(e.kind === 'person' && pinRef ? { ...e, body: { ...e.body, pinRef } } : e);
+  }
+  return out;
+}
+
+/** Person entries may not leave a site that had an active admin without one (schema/admin.ts). */
+async function checkAdminKept(store: ServerStore, siteId: string, entries: readonly SetupRecord[]): Promise<void> {
+  const changed = entries.flatMap((e) => (e.kind === 'person' ? [e.body] : []));
+  if (changed.length === 0) return;
+  const before = (await store.listSetup(siteId, 'person')).map((p) => p.body);
+  const after = new Map(before.map((p) => [p.id, p]));
+  for (const p of changed) after.set(p.id, p);
+  const isAdmin = (p: Person) => p.active && p.role === 'admin';
+  if (before.some(isAdmin) && ![...after.values()].some(isAdmin)) {
+    throw new HttpError(409, 'last-admin', 'This change would leave the site without an active admin, and the site must keep one. Make someone else an admin first.');
+  }
 }
 
 function entityIdOf(entry: SetupRecord): string {

@@ -25,12 +25,16 @@ export function registerSignInRoute(app: FastifyInstance, ctx: ServerContext): v
       throw new HttpError(429, 'rate-limited', `Too many failed sign-ins; try again in ${wait} seconds.`, { 'retry-after': String(wait) });
     }
 
-    const person = await findActivePerson(ctx, device.siteId, body.login);
+    const person = await findPerson(ctx, device.siteId, body.login);
     const secrets = person && (await ctx.store.getPersonSecrets(person.id));
     const pinOk = await verifyPin(body.pin, secrets ? { salt: secrets.pinSalt, hash: secrets.pinHash } : DUMMY_PIN_HASH);
     if (!person || !secrets || !pinOk) {
       for (const k of keys) ctx.signInLimiter.hit(k, now.getTime());
       throw new HttpError(401, 'sign-in-failed', 'The login or PIN is not right.');
+    }
+    // Said only to someone who knows the PIN, so it tells a guesser nothing.
+    if (!person.active) {
+      throw new HttpError(401, 'person-inactive', `${person.name}'s access to this site has been withdrawn by an administrator; ask the site admin if this is a mistake.`);
     }
     ctx.signInLimiter.reset(keys[1] ?? '');
 
@@ -51,9 +55,10 @@ export function registerSignInRoute(app: FastifyInstance, ctx: ServerContext): v
   });
 }
 
-/** Logins are matched without regard to case. */
-async function findActivePerson(ctx: ServerContext, siteId: string, login: string): Promise<Person | undefined> {
+/** Logins are matched without regard to case; an active person comes before an inactive one with the same login. */
+async function findPerson(ctx: ServerContext, siteId: string, login: string): Promise<Person | undefined> {
   const people = await ctx.store.listSetup(siteId, 'person');
   const wanted = login.toLowerCase();
-  return people.map((p) => p.body).find((p) => p.active && p.login.toLowerCase() === wanted);
+  const matching = people.map((p) => p.body).filter((p) => p.login.toLowerCase() === wanted);
+  return matching.find((p) => p.active) ?? matching[0];
 }

@@ -3,6 +3,7 @@ import { PushRequest, type PushResponse, type PushResult } from '../../schema/in
 import { authenticateDevice } from '../auth';
 import { contentHash } from '../canonical-json';
 import { checkRecord, SetupLookup } from '../check-record';
+import { HttpError } from '../http-error';
 import { parseInput } from '../parse-input';
 import type { ServerContext } from '../server-context';
 import type { RecordToInsert } from '../store/server-store';
@@ -15,6 +16,9 @@ export function registerSyncPushRoute(app: FastifyInstance, ctx: ServerContext):
   app.post('/api/v1/sync/push', async (request): Promise<PushResponse> => {
     const device = await authenticateDevice(ctx, request);
     const batch = parseInput(PushRequest, request.body, 'push batch');
+    if (batch.deviceSeqs && batch.deviceSeqs.length !== batch.records.length) {
+      throw new HttpError(400, 'bad-request', `The push batch has ${batch.records.length} records but ${batch.deviceSeqs.length} device sequence numbers.`);
+    }
     const lookup = new SetupLookup(ctx.store);
 
     const results: (PushResult | undefined)[] = [];
@@ -46,6 +50,13 @@ export function registerSyncPushRoute(app: FastifyInstance, ctx: ServerContext):
           ? { id: outcome.id, status: 'conflict', reason: 'A different record with this id is already stored; the stored one was kept unchanged.' }
           : { id: outcome.id, status: outcome.status, serverSeq: outcome.serverSeq };
     });
+
+    // Every number of the batch was received, whatever became of its record (after the records'
+    // own commit: a failure here leaves a gap that the tablet's resend fills).
+    if (batch.deviceSeqs) {
+      const seqs = batch.deviceSeqs;
+      await ctx.store.noteDeviceSeqs(device.id, results.map((r, i) => ({ seq: seqs[i]!, recordId: r?.id ?? '' })));
+    }
 
     const counts = { stored: 0, duplicate: 0, conflict: 0, rejected: 0 };
     for (const r of results) if (r) counts[r.status] += 1;

@@ -86,4 +86,18 @@ export const MIGRATIONS: readonly Migration[] = [
        )`,
     ],
   },
+  {
+    version: 2,
+    name: 'device sequence numbers received',
+    statements: [
+      // Every (tablet, device sequence) the server has received, whatever became of the record
+      // (stored, duplicate, conflict or refused): the numbers it never received are the gaps.
+      `CREATE TABLE device_seqs (
+         device_id TEXT NOT NULL,
+         device_seq BIGINT NOT NULL,
+         record_id TEXT NOT NULL,
+         PRIMARY KEY (device_id, device_seq)
+       )`,
+    ],
+  },
 ];

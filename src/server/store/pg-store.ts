@@ -18,6 +18,7 @@ import type {
   SetupKind,
   SiteScopedSetup,
 } from './server-store';
+import { DEVICE_ACTIVITY_SQL, SEQ_COUNTS_SQL, SEQ_GAPS_SQL, toDeviceActivity, toSeqCoverage, type DeviceActivity, type SeqCoverage } from './server-store';
 
 /** Anything that runs a query: the pool (autocommit) or one client inside a transaction. */
 type Queryable = Pick<pg.Pool | pg.PoolClient, 'query'>;
@@ -262,6 +263,28 @@ export class PgStore implements ServerStore {
       [siteId],
     );
     return rows.map(toDeviceRow);
+  }
+
+  async listDeviceActivity(siteId: string): Promise<DeviceActivity[]> {
+    const { rows } = await this.pool.query<Parameters<typeof toDeviceActivity>[0]>(DEVICE_ACTIVITY_SQL.replace('?', '$1'), [siteId]);
+    return rows.map(toDeviceActivity);
+  }
+
+  async noteDeviceSeqs(deviceId: string, seqs: readonly { readonly seq: number; readonly recordId: string }[]): Promise<void> {
+    if (seqs.length === 0) return;
+    await this.pool.query(
+      `INSERT INTO device_seqs (device_id, device_seq, record_id)
+       SELECT $1, seq, record_id FROM unnest($2::bigint[], $3::text[]) AS u(seq, record_id) ON CONFLICT DO NOTHING`,
+      [deviceId, seqs.map((s) => s.seq), seqs.map((s) => s.recordId)],
+    );
+  }
+
+  async listSeqCoverage(siteId: string): Promise<SeqCoverage[]> {
+    const [counts, gaps] = await Promise.all([
+      this.pool.query<Parameters<typeof toSeqCoverage>[0][number]>(SEQ_COUNTS_SQL.replace('?', '$1'), [siteId]),
+      this.pool.query<Parameters<typeof toSeqCoverage>[1][number]>(SEQ_GAPS_SQL.replace('?', '$1'), [siteId]),
+    ]);
+    return toSeqCoverage(counts.rows, gaps.rows);
   }
 
   async revokeDevice(id: string, at: string): Promise<boolean> {

@@ -32,6 +32,12 @@ export interface ServerStore {
   findDeviceByTokenHash(tokenHash: string): Promise<DeviceRow | undefined>;
   getDevice(id: string): Promise<DeviceRow | undefined>;
   listDevices(siteId: string): Promise<DeviceRow[]>;
+  /** When each tablet of a site last sent records and last had someone sign in (null: never). */
+  listDeviceActivity(siteId: string): Promise<DeviceActivity[]>;
+  /** Notes the device sequence numbers of a pushed batch (insert-if-absent; a resend changes nothing). */
+  noteDeviceSeqs(deviceId: string, seqs: readonly { readonly seq: number; readonly recordId: string }[]): Promise<void>;
+  /** Per tablet of the site that sent sequence numbers: how many, the highest, and the numbers below it never received. */
+  listSeqCoverage(siteId: string): Promise<SeqCoverage[]>;
   /** Withdraws a device: its token stops working at once. Returns false if there is no such device. */
   revokeDevice(id: string, at: string): Promise<boolean>;
   /** Registers a device directly (the demo seeder's own device); fails if the id exists. */
@@ -110,6 +116,63 @@ export interface DeviceRow {
   readonly name: string;
   readonly enrolledAt: string;
   readonly revokedAt: string | null;
+}
+
+export interface DeviceActivity {
+  readonly deviceId: string;
+  /** Server time of the newest record the tablet sent. */
+  readonly lastUploadAt: string | null;
+  /** When someone last signed in (online) on the tablet. */
+  readonly lastSignInAt: string | null;
+}
+
+/** Both back-ends run this (`?` placeholders; the PostgreSQL store numbers them). ISO strings order as text. */
+export const DEVICE_ACTIVITY_SQL = `SELECT d.id AS device_id,
+  (SELECT MAX(l.server_time) FROM log l WHERE l.site_id = d.site_id AND l.device_id = d.id) AS last_upload,
+  (SELECT MAX(s.created_at) FROM sessions s WHERE s.device_id = d.id) AS last_sign_in
+  FROM devices d WHERE d.site_id = ?`;
+
+export function toDeviceActivity(r: { device_id: string; last_upload: string | null; last_sign_in: string | null }): DeviceActivity {
+  return { deviceId: r.device_id, lastUploadAt: r.last_upload ?? null, lastSignInAt: r.last_sign_in ?? null };
+}
+
+/** What a tablet's device sequence numbers tell: records received, the highest number, and the gaps below it. */
+export interface SeqCoverage {
+  readonly deviceId: string;
+  readonly received: number;
+  readonly highest: number;
+  /** Numbers below `highest` never received, as ranges (at most MAX_GAPS_LISTED of them). */
+  readonly gaps: readonly { readonly from: number; readonly to: number }[];
+  /** How many numbers the gaps hold in all (also those past the listed ranges). */
+  readonly missing: number;
+}
+
+export const MAX_GAPS_LISTED = 20;
+
+/** Both back-ends run these (`?` placeholders; the PostgreSQL store numbers them). */
+export const SEQ_COUNTS_SQL = `SELECT s.device_id AS device_id, COUNT(*) AS received, MAX(s.device_seq) AS highest
+  FROM device_seqs s JOIN devices d ON d.id = s.device_id WHERE d.site_id = ? GROUP BY s.device_id`;
+export const SEQ_GAPS_SQL = `SELECT device_id, prev + 1 AS gap_from, device_seq - 1 AS gap_to FROM (
+    SELECT s.device_id AS device_id, s.device_seq AS device_seq,
+      COALESCE(LAG(s.device_seq) OVER (PARTITION BY s.device_id ORDER BY s.device_seq), 0) AS prev
+    FROM device_seqs s JOIN devices d ON d.id = s.device_id WHERE d.site_id = ?
+  ) t WHERE device_seq > prev + 1 ORDER BY device_id, gap_from`;
+
+/** The coverage of each tablet from the two queries' rows (numbers may come back as strings from PostgreSQL's BIGINT). */
+export function toSeqCoverage(
+  counts: readonly { device_id: string; received: number | string; highest: number | string }[],
+  gaps: readonly { device_id: string; gap_from: number | string; gap_to: number | string }[],
+): SeqCoverage[] {
+  return counts.map((c) => {
+    const mine = gaps.filter((g) => g.device_id === c.device_id).map((g) => ({ from: Number(g.gap_from), to: Number(g.gap_to) }));
+    return {
+      deviceId: c.device_id,
+      received: Number(c.received),
+      highest: Number(c.highest),
+      gaps: mine.slice(0, MAX_GAPS_LISTED),
+      missing: mine.reduce((n, g) => n + g.to - g.from + 1, 0),
+    };
+  });
 }
 
 export interface SessionRow {

@@ -18,6 +18,7 @@ import type {
   SetupKind,
   SiteScopedSetup,
 } from './server-store';
+import { DEVICE_ACTIVITY_SQL, SEQ_COUNTS_SQL, SEQ_GAPS_SQL, toDeviceActivity, toSeqCoverage, type DeviceActivity, type SeqCoverage } from './server-store';
 
 type Db = Database.Database;
 
@@ -189,6 +190,24 @@ export class SqliteStore implements ServerStore {
   async listDevices(siteId: string): Promise<DeviceRow[]> {
     const rows = this.db.prepare(`SELECT ${DEVICE_COLUMNS} FROM devices WHERE site_id = ? ORDER BY enrolled_at, id`).all(siteId) as DeviceDbRow[];
     return rows.map(toDeviceRow);
+  }
+
+  async listDeviceActivity(siteId: string): Promise<DeviceActivity[]> {
+    const rows = this.db.prepare(DEVICE_ACTIVITY_SQL).all(siteId) as Parameters<typeof toDeviceActivity>[0][];
+    return rows.map(toDeviceActivity);
+  }
+
+  async noteDeviceSeqs(deviceId: string, seqs: readonly { readonly seq: number; readonly recordId: string }[]): Promise<void> {
+    const insert = this.db.prepare(`INSERT INTO device_seqs (device_id, device_seq, record_id) VALUES (?, ?, ?) ON CONFLICT DO NOTHING`);
+    this.db.transaction(() => {
+      for (const s of seqs) insert.run(deviceId, s.seq, s.recordId);
+    })();
+  }
+
+  async listSeqCoverage(siteId: string): Promise<SeqCoverage[]> {
+    const counts = this.db.prepare(SEQ_COUNTS_SQL).all(siteId) as Parameters<typeof toSeqCoverage>[0][number][];
+    const gaps = this.db.prepare(SEQ_GAPS_SQL).all(siteId) as Parameters<typeof toSeqCoverage>[1][number][];
+    return toSeqCoverage(counts, gaps);
   }
 
   async revokeDevice(id: string, at: string): Promise<boolean> {

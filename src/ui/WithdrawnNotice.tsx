@@ -1,0 +1,16 @@
+import type { AppState } from '../app/app-state';
+
+/** Shown on a tablet an administrator has withdrawn: what that means, and that nothing unsent is lost. */
+export function WithdrawnNotice({ state }: { state: AppState }) {
+  if (!state.sync.withdrawn) return null;
+  const n = state.sync.pending;
+  return (
+    <div class="caution withdrawn-notice" role="alert" data-testid="withdrawn-notice">
+      <strong>This tablet has been withdrawn from the site by an administrator.</strong> It can no longer send records or receive
+      updates.{' '}
+      {n > 0
+        ? `${n} record${n === 1 ? '' : 's'} saved here ${n === 1 ? 'has' : 'have'} not reached the server: ${n === 1 ? 'it stays' : 'they stay'} on this tablet and on its charts. Tell the site admin before the tablet is reset or connected again.`
+        : 'Everything recorded here had reached the server.'}
+    </div>
+  );
+}
