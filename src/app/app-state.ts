@@ -74,6 +74,8 @@ export type Screen =
   /** A new phase; `fromSampleId` preselects the point it starts at (chosen on the chart). */
   | { readonly name: 'new-phase'; readonly characteristicId: string; readonly fromSampleId?: string }
   | { readonly name: 'limits-history'; readonly characteristicId: string }
+  /** The printable report of one characteristic (preview, then the browser's print). */
+  | { readonly name: 'report'; readonly characteristicId: string }
   /** CSV import of a characteristic's history (engineer and admin only). */
   | { readonly name: 'import'; readonly characteristicId: string }
   /** The site admin's people and tablets (admins only, online only). */

@@ -63,6 +63,9 @@ export function CharacteristicScreen({ state, actions, characteristicId, separat
               <button type="button" class="btn small" data-testid="open-limits-history" onClick={() => actions.open({ name: 'limits-history', characteristicId })}>
                 Limits by phase
               </button>
+              <button type="button" class="btn small" data-testid="open-report" onClick={() => actions.open({ name: 'report', characteristicId })}>
+                Print report
+              </button>
               {state.person?.role === 'engineer' || state.person?.role === 'admin' ? (
                 <>
                   <button type="button" class="btn small" data-testid="open-new-phase" onClick={() => actions.open({ name: 'new-phase', characteristicId })}>Start a new phase</button>

@@ -1,3 +1,4 @@
+import type { ComponentChildren } from 'preact';
 import { useMemo } from 'preact/hooks';
 import type { CharacteristicView } from '../../app/app-state';
 import { capabilityUnavailable, studyCapability } from '../../app/capability-study';
@@ -6,8 +7,11 @@ const W = 640;
 const H = 220;
 const PAD = { left: 40, right: 12, top: 12, bottom: 28 };
 
-/** Capability study of the current phase: histogram against the specification, indices with intervals, cautions. */
-export function CapabilityPanel({ view }: { view: CharacteristicView }) {
+/**
+ * Capability study of the current phase: histogram against the specification, indices with intervals,
+ * cautions. `lead` goes first, before the engine's cautions (the printed report's stability caution).
+ */
+export function CapabilityPanel({ view, lead }: { view: CharacteristicView; lead?: ComponentChildren }) {
   const why = capabilityUnavailable(view);
   const study = useMemo(() => (why ? undefined : studyCapability(view)), [view]);
   const ch = view.characteristic;
@@ -31,6 +35,7 @@ export function CapabilityPanel({ view }: { view: CharacteristicView }) {
   return (
     <section class="card stack" aria-labelledby="cap-title" data-testid="capability-panel">
       <h2 id="cap-title">Capability of phase {c.phase + 1} ({c.n} values)</h2>
+      {lead}
       {c.cautions.map((t) => <p class="caution" key={t}>{t}</p>)}
       <svg class="histogram" viewBox={`0 0 ${W} ${H}`} role="img"
         aria-label={`Histogram of ${c.n} values of ${ch.name} against the specification limits${ch.spec.lsl !== undefined ? ` ${ch.spec.lsl}` : ''}${ch.spec.usl !== undefined ? ` to ${ch.spec.usl}` : ''}`}>

@@ -13,8 +13,11 @@ const MAIN_NAME: Record<string, string> = {
   ewma: 'EWMA (exponentially weighted moving average)', cusum: 'Upper CUSUM (sum of rises above target)',
 };
 
-/** The main chart and its companion (range / moving range / s) for one characteristic. */
-export function ChartPanel({ view, state, actions }: { view: CharacteristicView; state: AppState; actions: AppActions }) {
+/**
+ * The main chart and its companion (range / moving range / s) for one characteristic. With `span`
+ * (the printed report) it shows those points only, with nothing to tap or move.
+ */
+export function ChartPanel({ view, state, actions, span }: { view: CharacteristicView; state: AppState; actions: AppActions; span?: { readonly from: number; readonly to: number } }) {
   const [whole, setWhole] = useState(false);
   /** Last point shown when looking back in history; null follows the newest point. */
   const [end, setEnd] = useState<number | null>(null);
@@ -26,8 +29,8 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
   const isCusum = ch.chartType === 'cusum';
   const n = analysis.points.length;
   // Only the points on show go to the chart: the latest SPAN by default, or the whole history.
-  const to = whole ? n : Math.min(n, end ?? n);
-  const from = whole ? 0 : Math.max(0, to - SPAN);
+  const to = span ? Math.min(n, span.to) : whole ? n : Math.min(n, end ?? n);
+  const from = span ? Math.min(span.from, to) : whole ? 0 : Math.max(0, to - SPAN);
   const main = useMemo<PlotPoint[]>(
     () => analysis.points.slice(from, to).map((p) => isCusum
       ? { value: p.cusum?.upper ?? null, centre: 0, ucl: p.cusum?.limit ?? null, lcl: null, sigma: null }
@@ -63,23 +66,23 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
   // The CUSUM charts plot sums, not values: the specification does not belong on them.
   const spec = useMemo(() => (isCusum ? {} : { lsl: ch.spec.lsl, usl: ch.spec.usl }), [ch]);
   const last = analysis.points[n - 1];
-  const pick = (i: number) => setSelected(from + i);
+  const pick = span ? undefined : (i: number) => setSelected(from + i);
   const selectedHere = selected !== null && selected >= from && selected < to ? selected - from : null;
   const f = (v: number | null) => (v === null ? 'not yet computed' : v.toFixed(ch.decimals + 1));
   const label = last
-    ? `${MAIN_NAME[ch.chartType]} chart of ${ch.name}, ${n} points. Latest ${f(last.value)}; centre ${f(last.centre)}, limits ${f(last.lcl)} to ${f(last.ucl)}. ${view.groups.filter((g) => g.state === 'unanswered').length} signals open.`
+    ? `${MAIN_NAME[ch.chartType]} chart of ${ch.name}, ${span ? `${to - from} of ${n}` : n} points. Latest ${f(last.value)}; centre ${f(last.centre)}, limits ${f(last.lcl)} to ${f(last.ucl)}. ${view.groups.filter((g) => g.state === 'unanswered').length} signals open.`
     : `${ch.name}: no samples yet.`;
   return (
     <section class="chart-box stack" style="gap:8px" aria-label="Control chart">
       <div class="row" style="justify-content:space-between">
         <h2>{MAIN_NAME[ch.chartType]}</h2>
-        <div class="row" style="gap:8px" role="group" aria-label="Span of the chart">
+        {span ? null : <div class="row" style="gap:8px" role="group" aria-label="Span of the chart">
           <button type="button" class="btn small" disabled={whole || (end ?? n) <= SPAN} onClick={() => setEnd(Math.max(SPAN, (end ?? n) - SPAN / 2))}>◀ Earlier</button>
           <button type="button" class="btn small" disabled={whole || end === null} onClick={() => setEnd(end !== null && end + SPAN / 2 < n ? end + SPAN / 2 : null)}>Later ▶</button>
           <button type="button" class="btn small" onClick={() => { setWhole(!whole); setEnd(null); }} aria-pressed={whole}>
             {whole ? `Latest ${SPAN}` : 'Whole history'}
           </button>
-        </div>
+        </div>}
       </div>
       <div class="chart-legend" aria-hidden="true">
         <span><i class="legend-centre" />{isCusum ? 'zero (on target)' : 'centre line'}</span>
@@ -88,12 +91,12 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
         <span><i class="legend-flag" />run rule fired</span>
       </div>
       <ControlChart label={label} points={main} flags={flags} phaseStarts={phaseStarts} spec={spec} decimals={isCount ? 3 : ch.decimals + 1}
-        height={320} showZones offset={from} testId="main-chart" onPick={pick} selected={selectedHere} />
+        height={span ? 260 : 320} showZones offset={from} testId="main-chart" onPick={pick} selected={selectedHere} />
       {!hasCompanion ? null : (
         <>
           <h3>{companionName}</h3>
           <ControlChart label={`${companionName} chart of ${ch.name}`} points={companion} flags={companionFlags} phaseStarts={phaseStarts}
-            decimals={ch.decimals + 1} height={160} showZones={false} offset={from} testId="companion-chart" onPick={pick} selected={selectedHere} />
+            decimals={ch.decimals + 1} height={span ? 130 : 160} showZones={false} offset={from} testId="companion-chart" onPick={pick} selected={selectedHere} />
         </>
       )}
       {phaseStarts.length ? (
@@ -101,8 +104,8 @@ export function ChartPanel({ view, state, actions }: { view: CharacteristicView;
           {phaseStarts.map((p) => `New ${p.label} from point ${from + p.index + 1}`).join(' · ')}
         </p>
       ) : null}
-      <p class="chart-hint">Tap a point for its details · drag across the chart to zoom in, double-tap to zoom out · Earlier / Later move through the history.</p>
-      {selected !== null ? <PointDetails view={view} index={selected} state={state} actions={actions} onClose={() => setSelected(null)} /> : null}
+      {span ? null : <p class="chart-hint">Tap a point for its details · drag across the chart to zoom in, double-tap to zoom out · Earlier / Later move through the history.</p>}
+      {selected !== null && !span ? <PointDetails view={view} index={selected} state={state} actions={actions} onClose={() => setSelected(null)} /> : null}
     </section>
   );
 }

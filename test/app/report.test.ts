@@ -1,0 +1,160 @@
+import { describe, expect, it } from 'vitest';
+import { buildCharacteristicView } from '../../src/app/build-view';
+import { limitsHistory } from '../../src/app/limits-history';
+import {
+  capabilityScope, limitsInRange, reportHeader, reportRange, rulesText, signalCounts, signalsInRange, specificationText,
+} from '../../src/app/report';
+import type { SignalGroup } from '../../src/app/signal-state';
+import { BASELINE, MINUTE, T0, individuals, iso, makeAck, makeCharacteristic, makePhase, makeResponse, sampleAt } from './helpers';
+
+const HOUR = 60 * MINUTE;
+const DAY = 24 * HOUR;
+const SETUP = {
+  sites: [{ id: 'site-1', name: 'Works' }],
+  lines: [{ id: 'ln-1', siteId: 'site-1', name: 'Line 1' }],
+  stations: [{ id: 'st-1', lineId: 'ln-1', name: 'Press 4' }],
+};
+
+/** One sample a day for `days` days from T0, each at 10 except where `at` says otherwise. */
+function daily(days: number, at: Record<number, number> = {}) {
+  return Array.from({ length: days }, (_, i) => sampleAt(i * 24 * 60, { values: [at[i] ?? (BASELINE[i % BASELINE.length] ?? 10)] }));
+}
+
+describe('reportRange()', () => {
+  const ch = makeCharacteristic();
+  const samples = daily(40);
+  const now = T0 + 39 * DAY + HOUR; // an hour after the 40th sample
+  const view = buildCharacteristicView(ch, [], samples, [], [], now);
+
+  it('whole history: every point', () => {
+    expect(reportRange(view, 'all', now)).toEqual({ from: 0, to: 40 });
+  });
+
+  it('last 7 and 30 days: the samples taken since that many days before now', () => {
+    // Samples on days 0..39; now is day 39 + 1 h, so 7 days back is day 32 + 1 h: days 33..39 (7 samples).
+    expect(reportRange(view, 'last-7-days', now)).toEqual({ from: 33, to: 40 });
+    expect(reportRange(view, 'last-30-days', now)).toEqual({ from: 10, to: 40 });
+  });
+
+  it('a period with no samples is empty (from = to), never negative', () => {
+    expect(reportRange(view, 'last-7-days', now + 60 * DAY)).toEqual({ from: 40, to: 40 });
+  });
+
+  it('current phase: from the first point of the last phase', () => {
+    const phases = [makePhase({ number: 1, startsAt: iso(T0) }), makePhase({ number: 2, startsAt: iso(T0 + 25 * DAY - HOUR), reason: 'New holder' })];
+    const phased = buildCharacteristicView(ch, phases, samples, [], [], now);
+    expect(reportRange(phased, 'current-phase', now)).toEqual({ from: 25, to: 40 });
+    // One phase only: the current phase is the whole history.
+    expect(reportRange(view, 'current-phase', now)).toEqual({ from: 0, to: 40 });
+  });
+});
+
+describe('specificationText()', () => {
+  it('two-sided with target, to the gauge resolution', () => {
+    expect(specificationText({ lsl: 22, target: 25, usl: 28 }, 1)).toBe('LSL 22.0 · target 25.0 · USL 28.0');
+  });
+  it('one-sided says which side it bounds', () => {
+    expect(specificationText({ usl: 0.5 }, 2)).toBe('USL 0.50 · one-sided: upper limit only, no lower limit');
+    expect(specificationText({ lsl: 12 }, 0)).toBe('LSL 12 · one-sided: lower limit only, no upper limit');
+  });
+  it('none', () => {
+    expect(specificationText({}, 2)).toBe('No specification');
+    expect(specificationText({ target: 5 }, 1)).toBe('No specification limits · target 5.0');
+  });
+});
+
+describe('rulesText()', () => {
+  it('groups the rule families, in order', () => {
+    expect(rulesText({ chartType: 'xmr', rules: ['n6', 'n1', 'we2', 'n2', 'we1'] })).toBe('Western Electric rules 1, 2 · Nelson tests 1, 2, 6');
+    expect(rulesText({ chartType: 'xmr', rules: ['we1'] })).toBe('Western Electric rule 1');
+    expect(rulesText({ chartType: 'xmr', rules: [] })).toBe('No run rules chosen');
+  });
+  it('EWMA and CUSUM name their own decision and design (defaults when none is set)', () => {
+    expect(rulesText({ chartType: 'ewma', rules: [] })).toBe('EWMA beyond its limits (λ 0.2, L 2.962)');
+    expect(rulesText({ chartType: 'cusum', rules: [], cusum: { k: 0.5, h: 4 } })).toBe('CUSUM beyond its decision interval (k 0.5σ, h 4σ)');
+  });
+});
+
+describe('reportHeader()', () => {
+  it('names where, what, the period (first and last sample) and who printed it when', () => {
+    const ch = makeCharacteristic({ name: 'Bolt torque', unit: 'N·m', decimals: 1, spec: { lsl: 22, usl: 28, target: 25 }, rules: ['n1', 'n2'], safetyCritical: true });
+    const samples = daily(10);
+    const now = T0 + 9 * DAY + HOUR;
+    const view = buildCharacteristicView(ch, [], samples, [], [], now);
+    const range = reportRange(view, 'last-7-days', now);
+    const h = reportHeader(view, SETUP, range, 'last-7-days', { name: 'Tomasz', role: 'supervisor' }, now);
+    expect(h).toEqual({
+      site: 'Works', line: 'Line 1', station: 'Press 4',
+      characteristic: 'Bolt torque', unit: 'N·m',
+      specification: 'LSL 22.0 · target 25.0 · USL 28.0',
+      rules: 'Nelson tests 1, 2',
+      periodLabel: 'Last 7 days',
+      firstSampleAt: samples[3]!.takenAt, lastSampleAt: samples[9]!.takenAt, points: 7,
+      printedAt: iso(now), printedBy: 'Tomasz (supervisor)',
+      safetyCritical: true,
+    });
+  });
+
+  it('an empty period has no first or last sample; an unknown station leaves the place out', () => {
+    const ch = makeCharacteristic({ stationId: 'st-gone' });
+    const view = buildCharacteristicView(ch, [], [], [], [], T0);
+    const h = reportHeader(view, SETUP, reportRange(view, 'all', T0), 'all', undefined, T0);
+    expect(h.firstSampleAt).toBeUndefined();
+    expect(h.lastSampleAt).toBeUndefined();
+    expect(h.points).toBe(0);
+    expect(h.station).toBeUndefined();
+    expect(h.site).toBeUndefined();
+    expect(h.printedBy).toBe('not signed in');
+  });
+});
+
+describe('signals of the period', () => {
+  const ch = makeCharacteristic();
+  // Points 21, 23 and 25 far above the baseline limits: Western Electric rule 1 (common practice: a point beyond 3 sigma).
+  const samples = individuals([...BASELINE, 11, 10, 11, 10, 11]);
+  const r21 = makeResponse(samples[20]!.id, { whatHappened: 'Chip' });
+  const r23 = makeResponse(samples[22]!.id, { whatHappened: 'Chip again' });
+  const ack = makeAck(r21.id);
+  const view = buildCharacteristicView(ch, [], samples, [r21, r23], [ack], T0 + 30 * HOUR);
+
+  it('keeps the groups that start or go on in the period, oldest first, with their answers', () => {
+    const all = signalsInRange(view.groups, { from: 0, to: 25 });
+    expect(all.map((g) => g.index)).toEqual([20, 22, 24]);
+    expect(all.map((g) => g.state)).toEqual(['closed', 'answered', 'unanswered']);
+    expect(all[0]!.response?.whatHappened).toBe('Chip');
+    expect(all[0]!.ack?.id).toBe(ack.id);
+    expect(signalCounts(all)).toEqual({ total: 3, open: 1, awaitingSignOff: 1, closed: 1 });
+    // Only the last two points: the group at 24, and the moving-range pattern begun at 21 that fired on to 25.
+    const tail = signalsInRange(view.groups, { from: 23, to: 25 });
+    expect(tail.map((g) => g.index)).toEqual([20, 24]);
+    expect(signalsInRange(view.groups, { from: 0, to: 20 })).toEqual([]);
+  });
+
+  it('counts by state from hand-built groups', () => {
+    const g = (state: SignalGroup['state']): SignalGroup => ({ sampleId: state, index: 0, lastIndex: 0, signals: [], state });
+    expect(signalCounts([g('unanswered'), g('unanswered'), g('closed')])).toEqual({ total: 3, open: 2, awaitingSignOff: 0, closed: 1 });
+  });
+});
+
+describe('limitsInRange()', () => {
+  const ch = makeCharacteristic();
+  const samples = daily(40);
+  const phases = [
+    makePhase({ number: 1, startsAt: iso(T0), reason: 'First limits' }),
+    makePhase({ number: 2, startsAt: iso(T0 + 25 * DAY - HOUR), reason: 'New holder', given: { centre: 10, sigma: 0.08 } }),
+  ];
+  const view = buildCharacteristicView(ch, phases, samples, [], [], T0 + 40 * DAY);
+
+  it('is limitsHistory() itself, cut to the phases with points in the period', () => {
+    const whole = limitsHistory(view.analysis, view.series, phases);
+    expect(limitsInRange(view, phases, { from: 0, to: 40 })).toEqual(whole);
+    expect(limitsInRange(view, phases, { from: 30, to: 40 })).toEqual([whole[1]]);
+    expect(limitsInRange(view, phases, { from: 0, to: 10 })).toEqual([whole[0]]);
+    expect(limitsInRange(view, phases, { from: 24, to: 26 }).map((r) => r.number)).toEqual([1, 2]);
+  });
+
+  it('capabilityScope() says when the studied phase reaches outside the period', () => {
+    expect(capabilityScope(view, { from: 25, to: 40 })).toEqual({ phase: 2, from: 25, to: 40, outside: false });
+    expect(capabilityScope(view, { from: 33, to: 40 })).toEqual({ phase: 2, from: 25, to: 40, outside: true });
+  });
+});
