@@ -129,12 +129,13 @@ export function signalsInRange(groups: readonly SignalGroup[], range: ReportRang
 }
 
 /** Counts of a period's signals by state, for the report's summary line. */
-export function signalCounts(groups: readonly SignalGroup[]): { readonly total: number; readonly open: number; readonly awaitingSignOff: number; readonly closed: number } {
+export function signalCounts(groups: readonly SignalGroup[]): { readonly total: number; readonly open: number; readonly awaitingSignOff: number; readonly closed: number; readonly historical: number } {
   return {
     total: groups.length,
     open: groups.filter((g) => g.state === 'unanswered').length,
     awaitingSignOff: groups.filter((g) => g.state === 'answered').length,
     closed: groups.filter((g) => g.state === 'closed').length,
+    historical: groups.filter((g) => g.state === 'historical').length,
   };
 }
 

@@ -123,7 +123,7 @@ describe('signals of the period', () => {
     expect(all.map((g) => g.state)).toEqual(['closed', 'answered', 'unanswered']);
     expect(all[0]!.response?.whatHappened).toBe('Chip');
     expect(all[0]!.ack?.id).toBe(ack.id);
-    expect(signalCounts(all)).toEqual({ total: 3, open: 1, awaitingSignOff: 1, closed: 1 });
+    expect(signalCounts(all)).toEqual({ total: 3, open: 1, awaitingSignOff: 1, closed: 1, historical: 0 });
     // Only the last two points: the group at 24, and the moving-range pattern begun at 21 that fired on to 25.
     const tail = signalsInRange(view.groups, { from: 23, to: 25 });
     expect(tail.map((g) => g.index)).toEqual([20, 24]);
@@ -132,7 +132,7 @@ describe('signals of the period', () => {
 
   it('counts by state from hand-built groups', () => {
     const g = (state: SignalGroup['state']): SignalGroup => ({ sampleId: state, index: 0, lastIndex: 0, signals: [], state });
-    expect(signalCounts([g('unanswered'), g('unanswered'), g('closed')])).toEqual({ total: 3, open: 2, awaitingSignOff: 0, closed: 1 });
+    expect(signalCounts([g('unanswered'), g('unanswered'), g('closed'), g('historical')])).toEqual({ total: 4, open: 2, awaitingSignOff: 0, closed: 1, historical: 1 });
   });
 });
 

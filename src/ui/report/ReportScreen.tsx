@@ -19,8 +19,9 @@ const STATE_TEXT: Record<SignalGroup['state'], string> = {
   unanswered: 'OPEN: no answer yet',
   answered: 'Answered, awaiting sign-off',
   closed: 'Signed off',
+  historical: 'In imported history, not answered',
 };
-const STATE_CHIP: Record<SignalGroup['state'], string> = { unanswered: 'signal', answered: 'answered', closed: 'steady' };
+const STATE_CHIP: Record<SignalGroup['state'], string> = { unanswered: 'signal', answered: 'answered', closed: 'steady', historical: 'neutral' };
 
 /**
  * The printable report of one characteristic: a preview on screen (period choice, Print, back) and,
@@ -104,7 +105,7 @@ function ReportSheet({ view, state, actions, period }: { view: CharacteristicVie
           {counts.total === 0 ? 'No run rule fired in this period.' : (
             <>
               {counts.total} signal{counts.total === 1 ? '' : 's'} in this period:{' '}
-              <strong class={counts.open ? 'report-open' : ''}>{counts.open} open (no answer yet)</strong>, {counts.awaitingSignOff} awaiting sign-off, {counts.closed} signed off.
+              <strong class={counts.open ? 'report-open' : ''}>{counts.open} open (no answer yet)</strong>, {counts.awaitingSignOff} awaiting sign-off, {counts.closed} signed off{counts.historical ? `, ${counts.historical} in imported history` : ''}.
             </>
           )}
         </p>
