@@ -1,6 +1,10 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
+import { join, resolve } from 'node:path';
 import type { Page } from 'playwright-core';
+
+/** Where the browser tests put their screenshots (git-ignored). */
+export const SHOTS = resolve('test-results/screenshots');
 
 const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 
@@ -22,4 +26,28 @@ export async function axeViolations(page: Page): Promise<AxeViolation[]> {
     const r = await axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] } });
     return r.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.map((n) => n.target.join(' ')) }));
   });
+}
+
+/** The two tablet sizes every screen is checked at. */
+export const TABLET_SIZES = [
+  { name: 'landscape', width: 1280, height: 800 },
+  { name: 'portrait', width: 800, height: 1280 },
+] as const;
+
+/**
+ * The page at both tablet sizes: a screenshot of each in test-results/screenshots/<name>-<w>x<h>.png
+ * (the whole page unless `fullPage` is false), and the axe violations found, in words. Leaves the
+ * page in landscape.
+ */
+export async function checkAtTabletSizes(page: Page, name: string, { fullPage = true } = {}): Promise<string[]> {
+  const problems: string[] = [];
+  for (const size of TABLET_SIZES) {
+    await page.setViewportSize(size);
+    await page.waitForTimeout(150); // one layout pass for the charts' resize observers
+    await page.screenshot({ path: join(SHOTS, `${name}-${size.width}x${size.height}.png`), fullPage });
+    for (const v of await axeViolations(page)) problems.push(`${name} @${size.name}: ${v.id} (${v.impact}) ${v.help} → ${v.nodes.slice(0, 3).join(', ')}`);
+  }
+  await page.setViewportSize(TABLET_SIZES[0]);
+  await page.waitForTimeout(150);
+  return problems;
 }

@@ -6,33 +6,15 @@
  */
 import { writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { DEMO_SITE_NAME } from '../../src/server/demo/demo-site';
-import { axeViolations } from './axe';
+import { checkAtTabletSizes, SHOTS } from './axe';
 import { browserAvailable } from './browser';
 import { enrolAndSignIn, pageOf, useDemoSite } from './site';
 
 const run = browserAvailable();
-const SHOTS = resolve('test-results/screenshots');
-const SIZES = [
-  { name: 'landscape', width: 1280, height: 800 },
-  { name: 'portrait', width: 800, height: 1280 },
-] as const;
 
-/** Screenshots and axe at both tablet sizes, then back to landscape. */
-async function check(page: Page, name: string): Promise<string[]> {
-  const problems: string[] = [];
-  for (const size of SIZES) {
-    await page.setViewportSize(size);
-    await page.waitForTimeout(150); // one layout pass for the charts' resize observers
-    await page.screenshot({ path: join(SHOTS, `${name}-${size.width}x${size.height}.png`), fullPage: true });
-    for (const v of await axeViolations(page)) problems.push(`${name} @${size.name}: ${v.id} (${v.impact}) ${v.help} → ${v.nodes.slice(0, 3).join(', ')}`);
-  }
-  await page.setViewportSize(SIZES[0]);
-  await page.waitForTimeout(150);
-  return problems;
-}
+const check = checkAtTabletSizes;
 
 describe.skipIf(!run)('printable report', () => {
   const fx = useDemoSite();

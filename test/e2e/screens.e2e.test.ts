@@ -2,31 +2,16 @@
  * Every screen at tablet sizes, in the light and the dark theme: axe-core finds no WCAG 2.1 AA
  * violation, and a screenshot of each is kept in test-results/screenshots for people to look at.
  */
-import { join, resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { DEMO_CHARACTERISTICS } from '../../src/server/demo/demo-site';
-import { axeViolations } from './axe';
+import { axeViolations, checkAtTabletSizes } from './axe';
 import { browserAvailable } from './browser';
 import { pageOf, signIn, useDemoSite } from './site';
 
 const run = browserAvailable();
-const SHOTS = resolve('test-results/screenshots');
-const SIZES = [
-  { name: 'landscape', width: 1280, height: 800 },
-  { name: 'portrait', width: 800, height: 1280 },
-] as const;
 
-async function check(page: Page, name: string): Promise<string[]> {
-  const problems: string[] = [];
-  for (const size of SIZES) {
-    await page.setViewportSize(size);
-    await page.waitForTimeout(150); // one layout pass for the charts' resize observers
-    await page.screenshot({ path: join(SHOTS, `${name}-${size.width}x${size.height}.png`) });
-    for (const v of await axeViolations(page)) problems.push(`${name} @${size.name}: ${v.id} (${v.impact}) ${v.help} → ${v.nodes.slice(0, 3).join(', ')}`);
-  }
-  return problems;
-}
+const check = (page: Page, name: string) => checkAtTabletSizes(page, name, { fullPage: false });
 
 describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
   const fx = useDemoSite();

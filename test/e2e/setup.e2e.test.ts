@@ -3,32 +3,15 @@
  * sync and takes a sample there; a new phase with its reason shows on the chart as a boundary; the
  * set-up screens pass axe (WCAG 2.1 AA) in both themes at 1280×800 and 800×1280.
  */
-import { join, resolve } from 'node:path';
-import type { Page } from 'playwright-core';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { axeViolations } from './axe';
+import { checkAtTabletSizes, SHOTS } from './axe';
 import { browserAvailable } from './browser';
 import { enrolAndSignIn, pageOf, syncNow, useDemoSite } from './site';
 
 const run = browserAvailable();
-const SHOTS = resolve('test-results/screenshots');
-const SIZES = [
-  { name: 'landscape', width: 1280, height: 800 },
-  { name: 'portrait', width: 800, height: 1280 },
-] as const;
 
-/** Screenshots and axe at both tablet sizes, then back to landscape. */
-async function check(page: Page, name: string): Promise<string[]> {
-  const problems: string[] = [];
-  for (const size of SIZES) {
-    await page.setViewportSize(size);
-    await page.waitForTimeout(150);
-    await page.screenshot({ path: join(SHOTS, `${name}-${size.width}x${size.height}.png`), fullPage: true });
-    for (const v of await axeViolations(page)) problems.push(`${name} @${size.name}: ${v.id} (${v.impact}) ${v.help} → ${v.nodes.slice(0, 3).join(', ')}`);
-  }
-  await page.setViewportSize(SIZES[0]);
-  return problems;
-}
+const check = checkAtTabletSizes;
 
 describe.skipIf(!run)('set-up by a quality engineer', () => {
   const fx = useDemoSite([{ width: 1280, height: 800 }, { width: 1280, height: 800 }]);

@@ -5,32 +5,15 @@
  * says so and keeps its unsent reading. The admin screens pass axe (WCAG 2.1 AA) in both themes at
  * 1280×800 and 800×1280.
  */
-import { join, resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
-import { axeViolations } from './axe';
+import { checkAtTabletSizes } from './axe';
 import { browserAvailable } from './browser';
 import { enrolAndSignIn, pageOf, signIn, syncNow, useDemoSite } from './site';
 
 const run = browserAvailable();
-const SHOTS = resolve('test-results/screenshots');
-const SIZES = [
-  { name: 'landscape', width: 1280, height: 800 },
-  { name: 'portrait', width: 800, height: 1280 },
-] as const;
 
-/** Screenshots at both sizes and the axe violations found, in words. */
-async function check(page: Page, name: string): Promise<string[]> {
-  const problems: string[] = [];
-  for (const size of SIZES) {
-    await page.setViewportSize(size);
-    await page.waitForTimeout(150);
-    await page.screenshot({ path: join(SHOTS, `${name}-${size.width}x${size.height}.png`), fullPage: true });
-    for (const v of await axeViolations(page)) problems.push(`${name} @${size.name}: ${v.id} (${v.impact}) ${v.help} → ${v.nodes.slice(0, 3).join(', ')}`);
-  }
-  await page.setViewportSize(SIZES[0]);
-  return problems;
-}
+const check = checkAtTabletSizes;
 
 async function setTheme(page: Page, theme: 'light' | 'dark') {
   if ((await page.evaluate(() => document.documentElement.dataset.theme)) !== theme) await page.getByTestId('theme-toggle').click();
