@@ -80,6 +80,11 @@ function makeKernel(): ZoneKernel | null {
   const memory = exports.m as WasmMemory;
   let f64 = new Float64Array(memory.buffer);
   let i32 = new Int32Array(memory.buffer);
+  // A few runs over 2,048 points at once: the engine compiles the function first for a quick start
+  // and optimises it once it has run a while, in the background; starting that now means the first
+  // real batch is more likely to find the optimised code (as the JavaScript loops are given type
+  // feedback at load in subgroup-stats.ts).
+  for (let k = 0; k < 4; k++) classify(64, 8 * (32 * 64 + 2), 0, 0, 1, 2, 1.5, 1.5, 1.8);
   return {
     run(values, from, n, centre, a0, a1, a2, zMid, zHalf, mMid) {
       const W = (n + 31) >>> 5;

@@ -51,7 +51,10 @@ interface Timing {
 
 // `inner` repeats f inside one measurement so that short passes stay well above the timers' resolution.
 function time(f: () => void, reps: number, inner = 1): Timing {
-  for (let i = 0; i < 3; i++) f(); // warm-up
+  // Warm-up: at least 10 runs and 100 ms, so that the compilers (JavaScript and WebAssembly, which
+  // optimise hot code in the background) have finished before anything is timed.
+  const w0 = performance.now();
+  for (let i = 0; i < 10 || performance.now() - w0 < 100; i++) f();
   const cpu: number[] = [];
   let wall = Infinity;
   for (let i = 0; i < reps; i++) {
