@@ -24,6 +24,10 @@ async function check(page: Page, name: string): Promise<string[]> {
     await page.waitForTimeout(150); // one layout pass for the charts' resize observers
     await page.screenshot({ path: join(SHOTS, `${name}-${size.width}x${size.height}.png`) });
     for (const v of await axeViolations(page)) problems.push(`${name} @${size.name}: ${v.id} (${v.impact}) ${v.help} → ${v.nodes.slice(0, 3).join(', ')}`);
+    // Nothing scrolls sideways, and the top bar keeps to two rows of 48 px touch targets at most.
+    const m = await page.evaluate(() => ({ sw: document.documentElement.scrollWidth, cw: document.documentElement.clientWidth, bar: document.querySelector('.topbar')?.getBoundingClientRect().height ?? 0 }));
+    if (m.sw > m.cw) problems.push(`${name} @${size.name}: scrolls sideways (${m.sw} > ${m.cw} px)`);
+    if (m.bar > 2 * 48 + 40) problems.push(`${name} @${size.name}: the top bar is ${m.bar} px high (more than two rows)`);
   }
   return problems;
 }
@@ -53,6 +57,15 @@ describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
       if (await back.count()) await back.click();
       await expect.poll(() => page.evaluate(() => document.documentElement.dataset.theme)).toBe(theme);
       problems.push(...(await check(page, `board-${theme}`)));
+      // The Tools menu of the top bar, open: Escape closes it and gives the focus back to its button.
+      const tools = page.getByTestId('role-menu-button');
+      await tools.focus();
+      await page.keyboard.press('Enter');
+      await page.getByTestId('menu-handover').waitFor();
+      problems.push(...(await check(page, `tools-menu-${theme}`)));
+      await page.keyboard.press('Escape');
+      await page.getByTestId('role-menu-panel').waitFor({ state: 'hidden' });
+      expect(await tools.evaluate((b) => b === document.activeElement && b.getAttribute('aria-expanded'))).toBe('false');
       await page.getByTestId('sync-pill').click();
       await page.getByTestId('sync-sheet').waitFor();
       problems.push(...(await check(page, `sync-details-${theme}`)));
