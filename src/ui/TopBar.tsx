@@ -27,7 +27,7 @@ export function TopBar({ state, actions }: { state: AppState; actions: AppAction
   const line = station && state.setup.lines.find((l) => l.id === station.lineId);
   const sync = describeSync(state.sync);
   return (
-    <header class="topbar">
+    <header class={`topbar${state.person ? ' with-person' : ''}`}>
       <div class="mark">
         <img src="/icons/plumbline.svg" alt="" />
         <span class="mark-word">Plumbline</span>
