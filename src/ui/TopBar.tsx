@@ -1,6 +1,7 @@
 import { formatClock } from './format-time';
 import type { AppState, SyncView } from '../app/app-state';
 import type { AppActions } from '../app/app-state';
+import { RoleMenu } from './RoleMenu';
 
 function clock(iso: string | undefined): string {
   if (!iso) return 'never';
@@ -26,10 +27,10 @@ export function TopBar({ state, actions }: { state: AppState; actions: AppAction
   const line = station && state.setup.lines.find((l) => l.id === station.lineId);
   const sync = describeSync(state.sync);
   return (
-    <header class="topbar">
+    <header class={`topbar${state.person ? ' with-person' : ''}`}>
       <div class="mark">
         <img src="/icons/plumbline.svg" alt="" />
-        <span>Plumbline</span>
+        <span class="mark-word">Plumbline</span>
       </div>
       {station ? (
         <div class="where" data-testid="where">
@@ -40,30 +41,23 @@ export function TopBar({ state, actions }: { state: AppState; actions: AppAction
       <div class="spacer" />
       <button
         type="button"
-        class={`pill ${sync.tone}`}
+        class={`pill sync-pill ${sync.tone}`}
         onClick={() => void actions.openSyncDetails()}
         title={state.sync.lastError ?? 'Sending and receiving: details and Sync now'}
         data-testid="sync-pill"
       >
         <span class="dot" aria-hidden="true" />
-        <span>{sync.text}</span>
+        <span class="pill-text">{sync.text}</span>
       </button>
-      <button type="button" class="pill" onClick={() => actions.setTheme(state.theme === 'dark' ? 'light' : 'dark')}
+      <button type="button" class="pill theme-toggle" onClick={() => actions.setTheme(state.theme === 'dark' ? 'light' : 'dark')}
         aria-label={state.theme === 'dark' ? 'Use the light theme' : 'Use the dark theme'} data-testid="theme-toggle">
-        {state.theme === 'dark' ? '☀ Light' : '☾ Dark'}
+        <span aria-hidden="true">{state.theme === 'dark' ? '☀' : '☾'}</span>
+        <span class="pill-word">{state.theme === 'dark' ? 'Light' : 'Dark'}</span>
       </button>
-      {state.stage === 'ready' && (state.person?.role === 'engineer' || state.person?.role === 'admin') ? (
-        <button type="button" class="pill" onClick={() => actions.open({ name: 'setup' })} data-testid="open-setup">Set-up</button>
-      ) : null}
-      {state.stage === 'ready' && state.person?.role === 'admin' ? (
-        <button type="button" class="pill" onClick={() => actions.open({ name: 'admin', tab: 'people' })} data-testid="open-admin"
-          aria-current={state.screen.name === 'admin' ? 'page' : undefined}>
-          People &amp; tablets
-        </button>
-      ) : null}
+      {state.stage === 'ready' && state.person ? <RoleMenu state={state} actions={actions} /> : null}
       {state.person ? (
-        <button type="button" class="pill" onClick={() => actions.signOut()} data-testid="person-pill" title="Change person">
-          {state.person.name} · {state.person.role}
+        <button type="button" class="pill person-pill" onClick={() => actions.signOut()} data-testid="person-pill" title="Change person">
+          <span class="pill-text">{state.person.name} · {state.person.role}</span>
         </button>
       ) : null}
     </header>

@@ -36,8 +36,8 @@ export const TABLET_SIZES = [
 
 /**
  * The page at both tablet sizes: a screenshot of each in test-results/screenshots/<name>-<w>x<h>.png
- * (the whole page unless `fullPage` is false), and the axe violations found, in words. Leaves the
- * page in landscape.
+ * (the whole page unless `fullPage` is false), and what is wrong, in words: the axe violations, a
+ * page that scrolls sideways, a top bar of more than two rows. Leaves the page in landscape.
  */
 export async function checkAtTabletSizes(page: Page, name: string, { fullPage = true } = {}): Promise<string[]> {
   const problems: string[] = [];
@@ -46,6 +46,10 @@ export async function checkAtTabletSizes(page: Page, name: string, { fullPage = 
     await page.waitForTimeout(150); // one layout pass for the charts' resize observers
     await page.screenshot({ path: join(SHOTS, `${name}-${size.width}x${size.height}.png`), fullPage });
     for (const v of await axeViolations(page)) problems.push(`${name} @${size.name}: ${v.id} (${v.impact}) ${v.help} → ${v.nodes.slice(0, 3).join(', ')}`);
+    // Nothing scrolls sideways, and the top bar keeps to two rows of 48 px touch targets at most.
+    const m = await page.evaluate(() => ({ sw: document.documentElement.scrollWidth, cw: document.documentElement.clientWidth, bar: document.querySelector('.topbar')?.getBoundingClientRect().height ?? 0 }));
+    if (m.sw > m.cw) problems.push(`${name} @${size.name}: scrolls sideways (${m.sw} > ${m.cw} px)`);
+    if (m.bar > 2 * 48 + 40) problems.push(`${name} @${size.name}: the top bar is ${m.bar} px high (more than two rows)`);
   }
   await page.setViewportSize(TABLET_SIZES[0]);
   await page.waitForTimeout(150);

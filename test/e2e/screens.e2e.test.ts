@@ -38,6 +38,15 @@ describe.skipIf(!run)('screens at tablet sizes, light and dark', () => {
       if (await back.count()) await back.click();
       await expect.poll(() => page.evaluate(() => document.documentElement.dataset.theme)).toBe(theme);
       problems.push(...(await check(page, `board-${theme}`)));
+      // The Tools menu of the top bar, open: Escape closes it and gives the focus back to its button.
+      const tools = page.getByTestId('role-menu-button');
+      await tools.focus();
+      await page.keyboard.press('Enter');
+      await page.getByTestId('menu-handover').waitFor();
+      problems.push(...(await check(page, `tools-menu-${theme}`)));
+      await page.keyboard.press('Escape');
+      await page.getByTestId('role-menu-panel').waitFor({ state: 'hidden' });
+      expect(await tools.evaluate((b) => b === document.activeElement && b.getAttribute('aria-expanded'))).toBe('false');
       await page.getByTestId('sync-pill').click();
       await page.getByTestId('sync-sheet').waitFor();
       problems.push(...(await check(page, `sync-details-${theme}`)));

@@ -26,6 +26,7 @@ describe.skipIf(!run)('set-up by a quality engineer', () => {
     await enrolAndSignIn(eng, site, 'imogen', '8642', 'Quality office tablet');
 
     // The set-up screen and a new characteristic at the turning cell.
+    await eng.getByTestId('role-menu-button').click(); // set-up is one of the tools in the top bar's menu
     await eng.getByTestId('open-setup').click();
     await eng.getByRole('heading', { name: /Set-up of lines/ }).waitFor();
     problems.push(...(await check(eng, 'setup-light')));
@@ -75,6 +76,7 @@ describe.skipIf(!run)('set-up by a quality engineer', () => {
 
     // A new phase on the demo's bonnet torque (XmR), from a point already on the chart, with a reason.
     await eng.getByRole('button', { name: '← Station board' }).click().catch(() => undefined);
+    await eng.getByTestId('role-menu-button').click(); // set-up is one of the tools in the top bar's menu
     await eng.getByTestId('open-setup').click();
     await eng.getByRole('button', { name: 'Change Bonnet bolt torque' }).click();
     await eng.getByTestId('characteristic-editor').waitFor();
@@ -128,6 +130,7 @@ describe.skipIf(!run)('set-up by a quality engineer', () => {
     await eng.getByTestId('phase-notice').waitFor();
     problems.push(...(await check(eng, 'characteristic-editor-dark')));
     await eng.getByRole('button', { name: 'Cancel' }).click();
+    await eng.getByTestId('role-menu-button').click(); // set-up is one of the tools in the top bar's menu
     await eng.getByTestId('open-setup').click();
     await eng.getByRole('heading', { name: /Set-up of lines/ }).waitFor();
     problems.push(...(await check(eng, 'setup-dark')));

@@ -37,6 +37,7 @@ describe.skipIf(!run)('the site admin: people and tablets', () => {
     await line!.getByTestId('person-pill').click();
 
     await enrolAndSignIn(admin, site, 'marguerite', '9753', 'Office tablet');
+    await admin.getByTestId('role-menu-button').click(); // people & tablets is one of the tools in the top bar's menu
     await admin.getByTestId('open-admin').click();
     const people = admin.getByTestId('people-table');
     await people.waitFor();

@@ -13,6 +13,7 @@ export function AdminScreen({ state, actions, tab }: { state: AppState; actions:
   const view = state.admin ?? { loading: true };
   return (
     <main class="main stack" data-testid="admin-screen">
+      <button type="button" class="btn quiet small back-link" onClick={() => actions.open({ name: 'board' })}>← Station board</button>
       <div class="row" style="justify-content:space-between">
         <h1 id="admin-title">People and tablets</h1>
         <div class="row" style="gap:8px">
@@ -27,7 +28,6 @@ export function AdminScreen({ state, actions, tab }: { state: AppState; actions:
           <button type="button" class="btn small" onClick={() => void actions.adminReload()} disabled={view.loading}>
             {view.loading ? 'Loading…' : 'Refresh'}
           </button>
-          <button type="button" class="btn small" onClick={() => actions.open({ name: 'board' })}>← Station board</button>
         </div>
       </div>
       <p class="hint">

@@ -4,8 +4,9 @@ import type { CharacteristicView } from '../../app/app-state';
 import { capabilityUnavailable, studyCapability } from '../../app/capability-study';
 
 const W = 640;
-const H = 220;
-const PAD = { left: 40, right: 12, top: 12, bottom: 28 };
+const H = 244;
+/** The top band holds the labels of the vertical lines in two rows, clear of the bars. */
+const PAD = { left: 40, right: 12, top: 40, bottom: 28 };
 
 /**
  * Capability study of the current phase: histogram against the specification, indices with intervals,
@@ -28,8 +29,8 @@ export function CapabilityPanel({ view, lead }: { view: CharacteristicView; lead
   const line = (v: number | undefined, label: string, cls: string, low = false) =>
     v === undefined ? null : (
       <g class={cls}>
-        <line x1={x(v)} x2={x(v)} y1={PAD.top} y2={H - PAD.bottom} />
-        <text x={x(v) > W - 60 ? x(v) - 4 : x(v) + 4} text-anchor={x(v) > W - 60 ? 'end' : 'start'} y={low ? H - PAD.bottom - 6 : PAD.top + 12}>{label}</text>
+        <line x1={x(v)} x2={x(v)} y1={low ? 22 : 4} y2={H - PAD.bottom} />
+        <text x={x(v) > W - 60 ? x(v) - 4 : x(v) + 4} text-anchor={x(v) > W - 60 ? 'end' : 'start'} y={low ? 32 : 14}>{label}</text>
       </g>
     );
   return (

@@ -1,3 +1,5 @@
+import { GrowingTextArea } from './GrowingTextArea';
+
 /** An ordered list of short texts: add, change, remove and move up or down (reaction plan steps, cause categories). */
 export function ListEditor({ idPrefix, itemLabel, items, onChange, addLabel, error }: {
   idPrefix: string; itemLabel: string; items: readonly string[]; onChange: (items: string[]) => void; addLabel: string; error?: string | undefined;
@@ -15,8 +17,7 @@ export function ListEditor({ idPrefix, itemLabel, items, onChange, addLabel, err
           <li key={i} class="list-editor-row">
             <span class="list-editor-no" aria-hidden="true">{i + 1}.</span>
             <label class="sr-only" for={`${idPrefix}-${i}`}>{itemLabel} {i + 1}</label>
-            <input id={`${idPrefix}-${i}`} class="text-input" value={item} autoComplete="off"
-              onInput={(e) => onChange(items.map((x, j) => (j === i ? (e.target as HTMLInputElement).value : x)))} />
+            <GrowingTextArea id={`${idPrefix}-${i}`} value={item} onInput={(v) => onChange(items.map((x, j) => (j === i ? v : x)))} />
             <button type="button" class="btn small" disabled={i === 0} onClick={() => move(i, -1)} aria-label={`Move ${itemLabel.toLowerCase()} ${i + 1} up`}>↑</button>
             <button type="button" class="btn small" disabled={i === items.length - 1} onClick={() => move(i, 1)} aria-label={`Move ${itemLabel.toLowerCase()} ${i + 1} down`}>↓</button>
             <button type="button" class="btn small" onClick={() => onChange(items.filter((_, j) => j !== i))} aria-label={`Remove ${itemLabel.toLowerCase()} ${i + 1}`}>Remove</button>
