@@ -37,4 +37,33 @@ describeBackends('phases in the set-up route', (backend) => {
     const operator = await signIn(server, device.deviceToken, 'odile', '1234');
     expect((await api(server, 'POST', '/api/v1/setup', { session: operator, body: { entries: [phase(2)] } })).statusCode).toBe(403);
   });
+
+  it('takes a corrected and then a withdrawn version of a phase (same id) from an admin, keeps the notes, and sends the latest in the pull; a supervisor is refused', async () => {
+    const admin = await signIn(server, device.deviceToken, 'ada', '3456');
+    expect((await api(server, 'POST', '/api/v1/setup', { session: admin, body: { entries: [phase(1), phase(2, { baselineCount: 8 })] } })).statusCode).toBe(200);
+    const changed = { at: '2026-12-02T10:00:00.000Z', by: 'p-adm', note: 'Typo in the reason' };
+    const corrected = phase(2, { baselineCount: 8, reason: 'Change 2, corrected', changed });
+    expect((await api(server, 'POST', '/api/v1/setup', { session: admin, body: { entries: [corrected] } })).statusCode).toBe(200);
+    expect((await server.store.getSetup('phase', 'ch-len:phase-2'))?.body).toMatchObject({ reason: 'Change 2, corrected', changed });
+
+    const supervisor = await signIn(server, device.deviceToken, 'sven', '2345');
+    const withdrawn = { at: '2026-12-02T11:00:00.000Z', by: 'p-adm', note: 'Started by mistake' };
+    const refused = await api(server, 'POST', '/api/v1/setup', { session: supervisor, body: { entries: [phase(2, { withdrawn })] } });
+    expect(refused.statusCode).toBe(403);
+    expect((await server.store.getSetup('phase', 'ch-len:phase-2'))?.body).not.toHaveProperty('withdrawn');
+
+    const res = await api(server, 'POST', '/api/v1/setup', { session: admin, body: { entries: [{ ...corrected, body: { ...corrected.body, withdrawn } }] } });
+    expect(res.statusCode).toBe(200);
+    const pulled = await api(server, 'GET', '/api/v1/sync/pull?after=0&limit=500', { device: device.deviceToken });
+    const versions = pulled.json().entries.filter((e: { entry: { kind: string; id: string } }) => e.entry.kind === 'phase' && e.entry.id === 'ch-len:phase-2')
+      .map((e: { entry: { body: unknown } }) => e.entry.body);
+    expect(versions[versions.length - 1]).toMatchObject({ reason: 'Change 2, corrected', changed, withdrawn });
+  });
+
+  it('refuses a withdrawal without a note with a clear 400', async () => {
+    const admin = await signIn(server, device.deviceToken, 'ada', '3456');
+    const bad = await api(server, 'POST', '/api/v1/setup', { session: admin, body: { entries: [phase(2, { withdrawn: { at: '2026-12-02T11:00:00.000Z', by: 'p-adm', note: ' ' } })] } });
+    expect(bad.statusCode).toBe(400);
+    expect(bad.json().message).toMatch(/withdrawn/);
+  });
 });
