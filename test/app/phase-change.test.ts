@@ -6,6 +6,7 @@ import {
   canChangePhases, isChangeablePhase, moveChoices, newPhaseConfirmation, phaseChangeConfirmation, phaseChangeForm, phaseChangeFromForm,
   phaseSpans, phaseWithdrawal, pointRange, type PhaseChangeContext,
 } from '../../src/app/phase-change';
+import { newPhaseForm, phaseEntriesFromForm } from '../../src/app/phase-form';
 import { Phase } from '../../src/schema';
 import { T0, iso, makeCharacteristic, makePhase, sampleAt } from './helpers';
 
@@ -35,6 +36,13 @@ describe('a withdrawn phase and the engine input', () => {
     const analysis = analyze(series.input);
     expect(analysis.phases).toHaveLength(1);
     expect(limitsHistory(analysis, series, [p1]).map((r) => r.number)).toEqual([1]);
+  });
+
+  it('a new phase after a withdrawn one takes the next number, and may start where the withdrawn one did', () => {
+    const withdrawn = { ...p3, withdrawn: { at: iso(NOW), by: 'p-eng', note: 'Mistake' } };
+    const form = { ...newPhaseForm(ch), reason: 'Coolant changed', startMode: 'point' as const, startSampleId: 's40' };
+    const r = phaseEntriesFromForm(form, { characteristic: ch, phases: [p1, p2, withdrawn], samples, currentPhaseStart: 20, now: NOW });
+    expect(r.ok && r.value.map((p) => [p.id, p.number, p.startsAt])).toEqual([['ch-bore:phase-4', 4, samples[40]!.takenAt]]);
   });
 
   it('phaseSpans gives each phase in force its points', () => {
