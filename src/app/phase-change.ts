@@ -103,12 +103,14 @@ export function phaseChangeFromForm(form: PhaseChangeForm, phase: Phase, ctx: Ph
     else startsAt = new Date(Date.parse(choice.takenAt)).toISOString();
   }
   const limits = limitsFromForm(form, ch, errors);
-  const { baselineCount: _k, given: _g, changed: _c, ...kept } = phase;
+  const { baselineCount: _k, given: _g, ...kept } = phase;
   const note = form.note.trim();
-  const draft = { ...kept, ...limits, startsAt, reason: form.reason, changed: { at: new Date(ctx.now).toISOString(), by: ctx.by, note } };
+  const was = { startsAt: phase.startsAt, reason: phase.reason, ...(phase.given ? { given: phase.given } : {}), ...(phase.baselineCount !== undefined ? { baselineCount: phase.baselineCount } : {}) };
+  const correction = { at: new Date(ctx.now).toISOString(), by: ctx.by, note, was };
+  const draft = { ...kept, ...limits, startsAt, reason: form.reason, corrections: [...(phase.corrections ?? []), correction] };
   const parsed = Phase.safeParse(draft);
   if (!parsed.success) {
-    const byField = fieldErrorsFrom<PhaseChangeField>(parsed.error.issues, (path) => (path[0] === 'changed' ? 'note' : fieldOfPhasePath(path)));
+    const byField = fieldErrorsFrom<PhaseChangeField>(parsed.error.issues, (path) => (path[0] === 'corrections' ? 'note' : fieldOfPhasePath(path)));
     Object.assign(errors, { ...byField, ...errors });
   }
   if (!note) errors.note = 'Say why the phase is being changed.';
@@ -193,4 +195,21 @@ export function phaseChangeConfirmation(before: Phase, after: Phase, ctx: Pick<P
   }
   if (after.reason !== before.reason) out.push(out.length ? `The reason will read “${after.reason}”.` : `Only the reason changes, to “${after.reason}”: the chart stays as it is.`);
   return out;
+}
+
+/**
+ * The corrections of a phase in words, oldest first: when, who (by `nameOf`), why, and what each one
+ * replaced ("reason was “…”; started at point 41; limits were from its first 15 subgroups"). Pure.
+ */
+export function correctionLines(phase: Phase, ch: Characteristic, nameOf: (personId: string) => string, formatTime: (iso: string) => string): string[] {
+  const list = phase.corrections ?? [];
+  return list.map((c, i) => {
+    const after = list[i + 1]?.was ?? phase;
+    const was: Phase = { ...phase, ...c.was, given: c.was.given, baselineCount: c.was.baselineCount };
+    const parts: string[] = [];
+    if (c.was.reason !== after.reason) parts.push(`reason was “${c.was.reason}”`);
+    if (Date.parse(c.was.startsAt) !== Date.parse(after.startsAt)) parts.push(`started ${formatTime(c.was.startsAt)}`);
+    if (!sameLimits(was, { ...phase, given: after.given, baselineCount: after.baselineCount }, ch)) parts.push(`limits were from ${limitsText(was, ch)}`);
+    return `Corrected ${formatTime(c.at)} by ${nameOf(c.by)}: ${c.note}${parts.length ? ` (${parts.join('; ')})` : ''}`;
+  });
 }

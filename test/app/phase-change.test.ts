@@ -3,7 +3,7 @@ import { buildChartSeries } from '../../src/app/analysis-input';
 import { limitsHistory } from '../../src/app/limits-history';
 import { analyze } from '../../src/engine';
 import {
-  canChangePhases, isChangeablePhase, moveChoices, newPhaseConfirmation, phaseChangeConfirmation, phaseChangeForm, phaseChangeFromForm,
+  canChangePhases, correctionLines, isChangeablePhase, moveChoices, newPhaseConfirmation, phaseChangeConfirmation, phaseChangeForm, phaseChangeFromForm,
   phaseSpans, phaseWithdrawal, pointRange, type PhaseChangeContext,
 } from '../../src/app/phase-change';
 import { newPhaseForm, phaseEntriesFromForm } from '../../src/app/phase-form';
@@ -58,8 +58,18 @@ describe('changing a phase', () => {
 
   it('corrects the reason as a new version of the same record, carrying who, when and why', () => {
     const r = phaseChangeFromForm({ ...phaseChangeForm(p3, ch), reason: 'Coolant changed', note: 'Typo in the reason' }, p3, ctx());
-    expect(r.ok && r.value).toEqual({ ...p3, reason: 'Coolant changed', changed: { at: iso(NOW), by: 'p-eng', note: 'Typo in the reason' } });
+    const first = { at: iso(NOW), by: 'p-eng', note: 'Typo in the reason', was: { startsAt: p3.startsAt, reason: 'Coolant changd', baselineCount: 15 } };
+    expect(r.ok && r.value).toEqual({ ...p3, reason: 'Coolant changed', corrections: [first] });
     expect(r.ok && Phase.safeParse(r.value).success).toBe(true);
+    if (!r.ok) return;
+    // A second correction keeps the first: the whole trail travels with the phase.
+    const r2 = phaseChangeFromForm({ ...phaseChangeForm(r.value, ch), startSampleId: 's42', baselineCount: '20', note: 'Coolant was changed two hours later' }, r.value, ctx({ now: NOW + HOUR }));
+    expect(r2.ok && r2.value.corrections).toEqual([first, { at: iso(NOW + HOUR), by: 'p-eng', note: 'Coolant was changed two hours later', was: { startsAt: p3.startsAt, reason: 'Coolant changed', baselineCount: 15 } }]);
+    const names = (id: string) => (id === 'p-eng' ? 'Esme' : id);
+    expect(r2.ok && correctionLines(r2.value, ch, names, (t) => t.slice(11, 16))).toEqual([
+      'Corrected 06:00 by Esme: Typo in the reason (reason was “Coolant changd”)',
+      'Corrected 07:00 by Esme: Coolant was changed two hours later (started 00:00; limits were from its first 15 subgroups)',
+    ]);
   });
 
   it('needs a note, and a real change', () => {

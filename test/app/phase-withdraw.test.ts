@@ -42,7 +42,7 @@ describe('correcting and withdrawing a phase', () => {
     if (!corrected.ok) throw new Error(JSON.stringify(corrected.errors));
     expect(await eng.app.actions.saveSetup([asRecord(corrected.value)], 'The correction')).toBe(true);
     expect(await phasesOn(eng)).toEqual([0, 15]);
-    expect(phase2()).toMatchObject({ reason: 'Fixture replaced', changed: { by: 'p-adm', note: 'Typo' } });
+    expect(phase2()).toMatchObject({ reason: 'Fixture replaced', corrections: [{ by: 'p-adm', note: 'Typo', was: { reason: 'Fixture replcd', baselineCount: 4 } }] });
 
     // Withdrawn: one phase again, on this tablet at once and on the other after its sync.
     const withdrawn = phaseWithdrawal(phase2(), 'Started on the wrong characteristic', ctx());

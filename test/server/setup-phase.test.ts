@@ -41,10 +41,11 @@ describeBackends('phases in the set-up route', (backend) => {
   it('takes a corrected and then a withdrawn version of a phase (same id) from an admin, keeps the notes, and sends the latest in the pull; a supervisor is refused', async () => {
     const admin = await signIn(server, device.deviceToken, 'ada', '3456');
     expect((await api(server, 'POST', '/api/v1/setup', { session: admin, body: { entries: [phase(1), phase(2, { baselineCount: 8 })] } })).statusCode).toBe(200);
-    const changed = { at: '2026-12-02T10:00:00.000Z', by: 'p-adm', note: 'Typo in the reason' };
-    const corrected = phase(2, { baselineCount: 8, reason: 'Change 2, corrected', changed });
+    const was = { startsAt: phase(2).body.startsAt, reason: 'Change 2', baselineCount: 8 };
+    const corrections = [{ at: '2026-12-02T10:00:00.000Z', by: 'p-adm', note: 'Typo in the reason', was }];
+    const corrected = phase(2, { baselineCount: 8, reason: 'Change 2, corrected', corrections });
     expect((await api(server, 'POST', '/api/v1/setup', { session: admin, body: { entries: [corrected] } })).statusCode).toBe(200);
-    expect((await server.store.getSetup('phase', 'ch-len:phase-2'))?.body).toMatchObject({ reason: 'Change 2, corrected', changed });
+    expect((await server.store.getSetup('phase', 'ch-len:phase-2'))?.body).toMatchObject({ reason: 'Change 2, corrected', corrections });
 
     const supervisor = await signIn(server, device.deviceToken, 'sven', '2345');
     const withdrawn = { at: '2026-12-02T11:00:00.000Z', by: 'p-adm', note: 'Started by mistake' };
@@ -57,7 +58,7 @@ describeBackends('phases in the set-up route', (backend) => {
     const pulled = await api(server, 'GET', '/api/v1/sync/pull?after=0&limit=500', { device: device.deviceToken });
     const versions = pulled.json().entries.filter((e: { entry: { kind: string; id: string } }) => e.entry.kind === 'phase' && e.entry.id === 'ch-len:phase-2')
       .map((e: { entry: { body: unknown } }) => e.entry.body);
-    expect(versions[versions.length - 1]).toMatchObject({ reason: 'Change 2, corrected', changed, withdrawn });
+    expect(versions[versions.length - 1]).toMatchObject({ reason: 'Change 2, corrected', corrections, withdrawn });
   });
 
   it('refuses a withdrawal without a note with a clear 400', async () => {

@@ -38,7 +38,7 @@ describe('PhaseChangeScreen', () => {
     expect(screen.getByTestId('confirm-change').textContent).toMatch(/Only the reason changes, to “New insert holder”: the chart stays as it is\./);
     fireEvent.click(screen.getByTestId('confirm-change-yes'));
     const [entries] = actions.saveSetup.mock.calls[0]!;
-    expect(entries).toEqual([{ kind: 'phase', id: p2.id, body: { ...p2, reason: 'New insert holder', changed: { at: expect.any(String), by: 'p-eng', note: 'Typo in the reason' } } }]);
+    expect(entries).toEqual([{ kind: 'phase', id: p2.id, body: { ...p2, reason: 'New insert holder', corrections: [{ at: expect.any(String), by: 'p-eng', note: 'Typo in the reason', was: { startsAt: p2.startsAt, reason: 'New insert holdr', baselineCount: 5 } }] } }]);
   });
 
   it('withdraws with a required note, saying which points go back to which limits', () => {
@@ -81,10 +81,10 @@ describe('LimitsHistoryScreen with corrected and withdrawn phases', () => {
 
   it('keeps a withdrawn phase listed, marked withdrawn with its note, and a correction note under the reason', () => {
     const p3 = makePhase({ id: 'ch-bore:phase-3', number: 3, startsAt: samples[23]!.takenAt, reason: 'Wrong chart', withdrawn: { at: iso(NOW), by: 'p-eng', note: 'Started by mistake' } });
-    const fixed = { ...p2, changed: { at: iso(NOW), by: 'p-eng', note: 'Typo in the reason' } };
+    const fixed = { ...p2, reason: 'New insert holder', corrections: [{ at: iso(NOW), by: 'p-eng', note: 'Typo in the reason', was: { startsAt: p2.startsAt, reason: 'New insert holdr', baselineCount: 5 } }] };
     render(<LimitsHistoryScreen state={stateWith([p1, fixed, p3])} actions={fakeActions()} characteristicId={ch.id} />);
     expect(screen.getByTestId('history-row-3').textContent).toMatch(/Phase 3 withdrawn.*Wrong chart.*Withdrawn .* by Esme: Started by mistake/);
-    expect(screen.getByTestId('history-row-2').textContent).toMatch(/Corrected .* by Esme: Typo in the reason/);
+    expect(screen.getByTestId('history-row-2').textContent).toMatch(/New insert holderCorrected .* by Esme: Typo in the reason \(reason was “New insert holdr”\)/);
     expect(screen.getByTestId('history-row-2').textContent).toMatch(/Baseline of 5 subgroups/);
     expect(screen.queryByTestId('change-phase-3')).toBeNull();
   });

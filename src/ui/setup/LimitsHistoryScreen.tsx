@@ -1,6 +1,6 @@
 import type { AppActions, AppState } from '../../app/app-state';
 import { SIGMA_METHOD_TEXT, limitsHistory, withdrawnPhases, type LimitsHistoryRow } from '../../app/limits-history';
-import { canChangePhases, isChangeablePhase } from '../../app/phase-change';
+import { canChangePhases, correctionLines, isChangeablePhase } from '../../app/phase-change';
 import type { Phase, PhaseNote } from '../../schema';
 import { formatShortDateTime } from '../format-time';
 import { CHART_SHORT_NAME } from './chart-names';
@@ -60,7 +60,8 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
                   <tr key={`w${p.number}`} class="withdrawn-row" data-testid={`history-row-${p.number}`}>
                     <th scope="row">Phase {p.number} <span class="phase-note">withdrawn</span></th>
                     <td data-label="Starts">{formatShortDateTime(p.startsAt)}</td>
-                    <td data-label="Reason">{p.reason}<span class="phase-note" data-testid={`withdrawn-note-${p.number}`}>{noteText('Withdrawn', p.withdrawn!)}</span></td>
+                    <td data-label="Reason">{p.reason}{correctionLines(p, ch, nameOf, formatShortDateTime).map((l) => <span key={l} class="phase-note">{l}</span>)}
+                      <span class="phase-note" data-testid={`withdrawn-note-${p.number}`}>{noteText('Withdrawn', p.withdrawn!)}</span></td>
                     <td data-label="Limits set by" colSpan={7}>Not used: its points are judged against the phase before.</td>
                   </tr>
                 );
@@ -76,7 +77,7 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
                     ) : null}
                   </th>
                   <td data-label="Starts">{r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</td>
-                  <td data-label="Reason">{r.reason}{setupPhase?.changed ? <span class="phase-note">{noteText('Corrected', setupPhase.changed)}</span> : null}</td>
+                  <td data-label="Reason">{r.reason}{setupPhase ? correctionLines(setupPhase, ch, nameOf, formatShortDateTime).map((l) => <span key={l} class="phase-note">{l}</span>) : null}</td>
                   <td data-label="Limits set by">{how(r)}</td>
                   <td data-label="Centre">{f(r.centre)}<span class="delta">{delta(r.change?.centre)}</span></td>
                   <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.ucl)}</span></td>
