@@ -67,4 +67,27 @@ describeBackends('phases in the set-up route', (backend) => {
     expect(bad.statusCode).toBe(400);
     expect(bad.json().message).toMatch(/withdrawn/);
   });
+
+  it('keeps the trail: a rewrite without a correction, a dropped correction or a change to a withdrawn phase is refused with 409; the same version again is fine', async () => {
+    const admin = await signIn(server, device.deviceToken, 'ada', '3456');
+    const post = async (entry: object) => api(server, 'POST', '/api/v1/setup', { session: admin, body: { entries: [entry] } });
+    expect((await post(phase(2))).statusCode).toBe(200);
+    expect((await post(phase(2))).statusCode).toBe(200); // a retry of the same version
+    // Another tablet's phase 2, started at the same time: not silently written over.
+    const rival = await post(phase(2, { reason: 'Another change' }));
+    expect(rival.statusCode).toBe(409);
+    expect(rival.json()).toMatchObject({ error: 'phase-trail', message: expect.stringMatching(/already exists with other content/) });
+    const was = { startsAt: phase(2).body.startsAt, reason: 'Change 2' };
+    const corrections = [{ at: '2026-12-02T10:00:00.000Z', by: 'p-adm', note: 'Typo', was }];
+    expect((await post(phase(2, { reason: 'Change two', corrections }))).statusCode).toBe(200);
+    const dropped = await post(phase(2, { reason: 'Change 2' }));
+    expect(dropped.statusCode).toBe(409);
+    expect(dropped.json().message).toMatch(/cannot be removed or rewritten/);
+    const withdrawn = { at: '2026-12-02T11:00:00.000Z', by: 'p-adm', note: 'Mistake' };
+    expect((await post(phase(2, { reason: 'Change two', corrections, withdrawn }))).statusCode).toBe(200);
+    const undone = await post(phase(2, { reason: 'Change two', corrections }));
+    expect(undone.statusCode).toBe(409);
+    expect(undone.json().message).toMatch(/withdrawn and stays as it was/);
+    expect((await server.store.getSetup('phase', 'ch-len:phase-2'))?.body).toMatchObject({ reason: 'Change two', withdrawn });
+  });
 });
