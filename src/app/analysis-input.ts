@@ -46,11 +46,12 @@ function toSubgroup(ch: Characteristic, s: Sample): SubgroupInput {
 
 /**
  * Builds the engine input from current samples (corrections already applied) and the
- * characteristic's phases. A phase starts at the first sample taken at or after its start.
+ * characteristic's phases (withdrawn ones left out). A phase starts at the first sample taken at or after its start.
  */
 export function buildChartSeries(ch: Characteristic, phases: readonly Phase[], current: readonly Sample[]): ChartSeries {
   const samples = isSorted(current) ? [...current] : [...current].sort(compareSamples);
-  const ordered = [...phases].filter((p) => p.characteristicId === ch.id).sort((a, b) => a.number - b.number);
+  // A withdrawn phase is left out: its points are judged as if it had never started.
+  const ordered = [...phases].filter((p) => p.characteristicId === ch.id && !p.withdrawn).sort((a, b) => a.number - b.number);
   const phaseInputs: PhaseInput[] = [];
   const phaseIds: string[] = [];
   for (const p of ordered) {

@@ -74,6 +74,8 @@ export type Screen =
   /** A new phase; `fromSampleId` preselects the point it starts at (chosen on the chart). */
   | { readonly name: 'new-phase'; readonly characteristicId: string; readonly fromSampleId?: string }
   | { readonly name: 'limits-history'; readonly characteristicId: string }
+  /** Correcting or withdrawing a phase already started (engineer, admin). */
+  | { readonly name: 'edit-phase'; readonly characteristicId: string; readonly phaseId: string }
   /** The printable report of one characteristic (preview, then the browser's print). */
   | { readonly name: 'report'; readonly characteristicId: string }
   /** CSV import of a characteristic's history (engineer and admin only). */

@@ -443,7 +443,7 @@ export function createPlumblineApp(deps: AppDeps) {
     },
     open(screen: Screen) {
       set({ screen, error: undefined });
-      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history' || screen.name === 'import' || screen.name === 'report') void refreshViews([screen.characteristicId]);
+      if (screen.name === 'characteristic' || screen.name === 'new-phase' || screen.name === 'limits-history' || screen.name === 'edit-phase' || screen.name === 'import' || screen.name === 'report') void refreshViews([screen.characteristicId]);
       else if (screen.name === 'overview' || screen.name === 'handover') void refreshViews(state.setup.characteristics.map((c) => c.id));
       else if (screen.name === 'admin') {
         if (state.person?.role !== 'admin') return set({ screen: { name: 'board' }, error: 'Only a site admin can manage people and tablets.' });

@@ -89,3 +89,8 @@ export function limitsHistory(analysis: Analysis, series: Pick<ChartSeries, 'pha
   }
   return rows;
 }
+
+/** The withdrawn phases of a characteristic, by number: the limits history still lists them, marked withdrawn. */
+export function withdrawnPhases(phases: readonly Phase[], characteristicId: string): Phase[] {
+  return phases.filter((p) => p.characteristicId === characteristicId && p.withdrawn).sort((a, b) => a.number - b.number);
+}

@@ -63,27 +63,12 @@ export function phaseEntriesFromForm(form: PhaseForm, ctx: PhaseContext): FormRe
     if (!choice) errors.startSampleId = form.startSampleId ? 'A new phase must start after the first point of the current phase.' : 'Choose the point where the new phase starts.';
     else startsAt = new Date(Date.parse(choice.takenAt)).toISOString();
   }
-  const latest = own.reduce<Phase | undefined>((m, p) => (!m || p.number > m.number ? p : m), undefined);
+  // A withdrawn phase keeps its number (ids stay unique) but no longer bounds where a new one may start.
+  const latest = own.filter((p) => !p.withdrawn).reduce<Phase | undefined>((m, p) => (!m || p.number > m.number ? p : m), undefined);
   if (latest && latest.number > 1 && Date.parse(startsAt) <= Date.parse(latest.startsAt)) errors.startSampleId ??= 'A new phase must start after the current phase started.';
 
   let phase: Record<string, unknown> = { id: phaseIdFor(ch.id, number === 1 ? 2 : number), characteristicId: ch.id, number: number === 1 ? 2 : number, startsAt, reason: form.reason };
-  if (form.limitsMode === 'baseline') {
-    const k = readNumber(form.baselineCount, true);
-    if (!k.ok) errors.baselineCount = k.message;
-    else phase = { ...phase, baselineCount: k.value };
-  } else {
-    const centre = readNumber(form.centre, true);
-    if (!centre.ok) errors.centre = centre.message;
-    if (isVariableChart(ch.chartType)) {
-      const sigma = readNumber(form.sigma, true);
-      if (!sigma.ok) errors.sigma = sigma.message;
-      if (centre.ok && sigma.ok) phase = { ...phase, given: { centre: centre.value, sigma: sigma.value } };
-    } else if (centre.ok && centre.value !== undefined) {
-      const sigma = attributeSigma(ch.chartType, centre.value);
-      if (sigma === undefined) errors.centre = ch.chartType === 'p' || ch.chartType === 'np' ? 'The proportion p̄ must lie between 0 and 1.' : 'The average count must be more than 0.';
-      else phase = { ...phase, given: { centre: centre.value, sigma } };
-    }
-  }
+  phase = { ...phase, ...limitsFromForm(form, ch, errors) };
   const parsed = Phase.safeParse(phase);
   if (!parsed.success) Object.assign(errors, { ...fieldErrorsFrom<PhaseField>(parsed.error.issues, fieldOfPath), ...errors });
   if (Object.keys(errors).length || !parsed.success) return { ok: false, errors };
@@ -95,6 +80,38 @@ export function phaseEntriesFromForm(form: PhaseForm, ctx: PhaseContext): FormRe
   }
   entries.push(parsed.data);
   return { ok: true, value: entries };
+}
+
+/**
+ * The limits part of a phase as the form gives it: `{ baselineCount }` or `{ given }` (empty when a
+ * field is wrong; its message is put in `errors`). Shared by the new-phase and the change-phase forms.
+ */
+export function limitsFromForm(
+  form: Pick<PhaseForm, 'limitsMode' | 'baselineCount' | 'centre' | 'sigma'>, ch: Characteristic, errors: Partial<Record<PhaseField, string>>,
+): { baselineCount?: number; given?: { centre: number; sigma: number } } {
+  if (form.limitsMode === 'baseline') {
+    const k = readNumber(form.baselineCount, true);
+    if (!k.ok) errors.baselineCount = k.message;
+    return k.ok && k.value !== undefined ? { baselineCount: k.value } : {};
+  }
+  const centre = readNumber(form.centre, true);
+  if (!centre.ok) errors.centre = centre.message;
+  if (isVariableChart(ch.chartType)) {
+    const sigma = readNumber(form.sigma, true);
+    if (!sigma.ok) errors.sigma = sigma.message;
+    return centre.ok && sigma.ok && centre.value !== undefined && sigma.value !== undefined ? { given: { centre: centre.value, sigma: sigma.value } } : {};
+  }
+  if (!centre.ok || centre.value === undefined) return {};
+  const sigma = attributeSigma(ch.chartType, centre.value);
+  if (sigma === undefined) {
+    errors.centre = ch.chartType === 'p' || ch.chartType === 'np' ? 'The proportion p̄ must lie between 0 and 1.' : 'The average count must be more than 0.';
+    return {};
+  }
+  return { given: { centre: centre.value, sigma } };
+}
+
+export function fieldOfPhasePath(path: readonly PropertyKey[]): PhaseField | undefined {
+  return fieldOfPath(path);
 }
 
 /**

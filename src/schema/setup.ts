@@ -70,6 +70,24 @@ export const Characteristic = z.object({
 });
 export type Characteristic = z.infer<typeof Characteristic>;
 
+/** Who changed or withdrew a phase, when, and the note saying why. */
+export const PhaseNote = z.object({ at: z.iso.datetime(), by: EntityId, note: NonEmptyText(400) });
+export type PhaseNote = z.infer<typeof PhaseNote>;
+
+/** One correction of a phase: the note, and the start, reason and limits it replaced. */
+export const PhaseCorrection = z.object({
+  at: z.iso.datetime(),
+  by: EntityId,
+  note: NonEmptyText(400),
+  was: z.object({
+    startsAt: z.iso.datetime(),
+    reason: NonEmptyText(400),
+    given: z.optional(z.object({ centre: z.number(), sigma: z.number().check(z.positive()) })),
+    baselineCount: z.optional(z.int().check(z.minimum(2), z.maximum(1000))),
+  }),
+});
+export type PhaseCorrection = z.infer<typeof PhaseCorrection>;
+
 /** A phase: limits hold from `startsAt` until the next phase of the same characteristic. */
 export const Phase = z.object({
   id: EntityId,
@@ -83,6 +101,10 @@ export const Phase = z.object({
   given: z.optional(z.object({ centre: z.number(), sigma: z.number().check(z.positive()) })),
   /** Subgroups of this phase's baseline when it differs from the characteristic's baselineSize (absent: baselineSize). */
   baselineCount: z.optional(z.int().check(z.minimum(2), z.maximum(1000))),
+  /** Corrections of this phase, oldest first: each a new version of the same id, with who, when, why and what it replaced. */
+  corrections: z.optional(z.array(PhaseCorrection).check(z.maxLength(100))),
+  /** Set when the phase was withdrawn (started by mistake): the engine leaves it out, the limits history still lists it. */
+  withdrawn: z.optional(PhaseNote),
 });
 export type Phase = z.infer<typeof Phase>;
 

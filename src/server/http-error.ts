@@ -20,6 +20,7 @@ export type ErrorCode =
   | 'person-inactive'
   | 'login-taken'
   | 'last-admin'
+  | 'phase-trail'
   | 'rate-limited'
   | 'internal';
 

@@ -14,6 +14,7 @@ import { TopBar } from './TopBar';
 import { CharacteristicEditor } from './setup/CharacteristicEditor';
 import { LimitsHistoryScreen } from './setup/LimitsHistoryScreen';
 import { PhaseScreen } from './setup/PhaseScreen';
+import { PhaseChangeScreen } from './setup/PhaseChangeScreen';
 import { ReportScreen } from './report/ReportScreen';
 import { SetupScreen } from './setup/SetupScreen';
 import { WithdrawnNotice } from './WithdrawnNotice';
@@ -44,6 +45,9 @@ export function App({ app, locale }: { app: AppHandle; locale: string }) {
   } else if (state.screen.name === 'new-phase') {
     const { characteristicId, fromSampleId } = state.screen;
     body = <PhaseScreen key={`${characteristicId}:${fromSampleId ?? ''}`} state={state} actions={actions} characteristicId={characteristicId} fromSampleId={fromSampleId} />;
+  } else if (state.screen.name === 'edit-phase') {
+    const { characteristicId, phaseId } = state.screen;
+    body = <PhaseChangeScreen key={phaseId} state={state} actions={actions} characteristicId={characteristicId} phaseId={phaseId} />;
   } else if (state.screen.name === 'limits-history') body = <LimitsHistoryScreen state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
   else if (state.screen.name === 'report') body = <ReportScreen key={state.screen.characteristicId} state={state} actions={actions} characteristicId={state.screen.characteristicId} />;
   else if (state.screen.name === 'admin') body = <AdminScreen state={state} actions={actions} tab={state.screen.tab} />;

@@ -94,6 +94,10 @@ describe.skipIf(!run)('set-up by a quality engineer', () => {
     await eng.getByTestId('start-point').selectOption({ index: 9 }); // ten points from the newest
     await eng.getByLabel('Subgroups in the baseline').fill('8');
     await eng.getByTestId('save-phase').click();
+    // Nothing is sent before the engineer has read what will change on the chart.
+    await expect.poll(() => eng.getByTestId('confirm-phase').innerText()).toMatch(/Limits from point \d+ on will be recomputed from the next 8 subgroups \(phase 2\)/);
+    problems.push(...(await check(eng, 'new-phase-confirm-light')));
+    await eng.getByTestId('confirm-phase-yes').click();
     await eng.getByTestId('main-chart').locator('canvas').first().waitFor({ timeout: 20_000 });
     await expect.poll(() => eng.getByTestId('phase-boundaries').innerText(), { timeout: 10_000 }).toMatch(/New phase 2 from point \d+/);
     const chosen = Number(/Point (\d+)/.exec(options[9]!)![1]);
@@ -113,6 +117,42 @@ describe.skipIf(!run)('set-up by a quality engineer', () => {
     expect(await table.isVisible()).toBe(true);
     await eng.screenshot({ path: join(SHOTS, 'limits-history-print.png'), fullPage: true });
     await eng.emulateMedia({ media: 'screen' });
+
+    // The reason had a typo: corrected, with a note, as a new version of the phase.
+    await eng.getByTestId('change-phase-2').click();
+    await eng.getByTestId('phase-change-form').waitFor();
+    problems.push(...(await check(eng, 'phase-change-light')));
+    await eng.getByLabel('Reason: the documented process change').fill('New torque tool calibrated, change note CN-119');
+    await eng.getByTestId('save-change').click();
+    await expect.poll(() => eng.getByTestId('phase-change-form').innerText()).toContain('Say why the phase is being changed.');
+    await eng.getByLabel('Why this correction').fill('Wrong change note number');
+    await eng.getByTestId('save-change').click();
+    await expect.poll(() => eng.getByTestId('confirm-change').innerText()).toContain('Only the reason changes, to “New torque tool calibrated, change note CN-119”: the chart stays as it is.');
+    await eng.getByTestId('confirm-change-yes').click();
+    await expect.poll(() => eng.getByTestId('history-row-2').innerText(), { timeout: 20_000 }).toMatch(/CN-119[\s\S]*Corrected .* by .*: Wrong change note number/);
+    expect((await site.store.getSetup('phase', 'bonnet-torque:phase-2'))?.body).toMatchObject({ reason: 'New torque tool calibrated, change note CN-119' });
+
+    // Then withdrawn (dark theme here): the confirmation names the points that go back to phase 1's limits.
+    await eng.getByTestId('change-phase-2').click();
+    await eng.getByTestId('phase-withdraw-form').waitFor();
+    await eng.getByTestId('theme-toggle').click();
+    await expect.poll(() => eng.evaluate(() => document.documentElement.dataset.theme)).toBe('dark');
+    problems.push(...(await check(eng, 'phase-change-dark')));
+    await eng.getByTestId('withdraw-note').fill('The tool change was on the other spindle');
+    await eng.getByTestId('withdraw-phase').click();
+    await expect.poll(() => eng.getByTestId('confirm-withdraw').innerText()).toMatch(/Phase 2 will be withdrawn: points \d+–\d+ will be judged against phase 1's limits\./);
+    expect(await eng.getByTestId('confirm-withdraw').innerText()).toContain(`points ${chosen}–`);
+    problems.push(...(await check(eng, 'phase-withdraw-confirm-dark')));
+    await eng.getByTestId('confirm-withdraw-yes').click();
+    await expect.poll(() => eng.getByTestId('history-row-2').innerText(), { timeout: 20_000 }).toMatch(/withdrawn[\s\S]*Withdrawn .*: The tool change was on the other spindle/);
+    expect(await eng.getByTestId('change-phase-2').count()).toBe(0);
+    await eng.getByTestId('theme-toggle').click();
+    await expect.poll(() => eng.evaluate(() => document.documentElement.dataset.theme)).toBe('light');
+    await eng.getByRole('button', { name: '← Bonnet bolt torque' }).click();
+    await eng.getByTestId('main-chart').locator('canvas').first().waitFor();
+    await expect.poll(() => eng.getByTestId('phase-boundaries').count(), { timeout: 10_000 }).toBe(0);
+    await eng.getByTestId('open-limits-history').click();
+    await eng.getByTestId('limits-history').waitFor();
 
     // The same screens in the dark theme.
     await eng.getByTestId('theme-toggle').click();

@@ -130,6 +130,10 @@ describe('PhaseScreen', () => {
     expect(options).toHaveLength(23); // points 2–24: after the first point of the only phase
     fireEvent.change(screen.getByTestId('start-point'), { target: { value: samples[20]!.id } });
     fireEvent.click(screen.getByTestId('save-phase'));
+    // Nothing is sent before the engineer has read what changes on the chart.
+    expect(actions.saveSetup).not.toHaveBeenCalled();
+    expect(screen.getByTestId('confirm-phase').textContent).toMatch(/Limits from point 21 on will be recomputed from the next 20 subgroups \(phase 2\)\. Points 1–20 keep phase 1's limits\./);
+    fireEvent.click(screen.getByTestId('confirm-phase-yes'));
     const [entries] = actions.saveSetup.mock.calls[0]!;
     expect(entries.map((e: { body: { number: number; startsAt: string } }) => [e.body.number, e.body.startsAt])).toEqual([[1, samples[0]!.takenAt], [2, samples[20]!.takenAt]]);
   });

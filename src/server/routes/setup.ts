@@ -3,6 +3,7 @@ import { SetupRecord, z, type Person, type Role } from '../../schema/index';
 import { authenticateSession, requireRole } from '../auth';
 import { HttpError } from '../http-error';
 import { parseInput } from '../parse-input';
+import { phaseTrailProblem } from '../phase-trail';
 import type { ServerContext } from '../server-context';
 import type { ServerStore, SetupKind } from '../store/server-store';
 
@@ -39,6 +40,10 @@ export function registerSetupRoute(app: FastifyInstance, ctx: ServerContext): vo
       requireRole(person, SETUP_ROLE[entry.kind], `change ${entry.kind} set-up`);
       if (entry.id !== entityIdOf(entry)) throw new HttpError(400, 'bad-request', `The ${entry.kind} entry "${entry.id}" must carry the same id in its body.`);
       await checkParent(ctx.store, siteId, entry, inBatch);
+      if (entry.kind === 'phase') {
+        const problem = phaseTrailProblem((await ctx.store.getSetup('phase', entry.id))?.body, entry.body);
+        if (problem) throw new HttpError(409, 'phase-trail', problem);
+      }
       inBatch.add(`${entry.kind}:${entry.id}`);
     }
     await checkAdminKept(ctx.store, siteId, entries);

@@ -1,8 +1,11 @@
 import type { AppActions, AppState } from '../../app/app-state';
-import { SIGMA_METHOD_TEXT, limitsHistory, type LimitsHistoryRow } from '../../app/limits-history';
+import { SIGMA_METHOD_TEXT, limitsHistory, withdrawnPhases, type LimitsHistoryRow } from '../../app/limits-history';
+import { canChangePhases, correctionLines, isChangeablePhase } from '../../app/phase-change';
+import type { Phase, PhaseNote } from '../../schema';
 import { formatShortDateTime } from '../format-time';
 import { CHART_SHORT_NAME } from './chart-names';
 import './setup.css';
+import './phase-change.css';
 
 /** "+57%", "−12%": a ratio as a signed change. */
 function percentChange(ratio: number): string {
@@ -17,6 +20,16 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
   if (!ch) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
   if (!view) return <main class="main"><p class="hint">Loading…</p></main>;
   const rows = limitsHistory(view.analysis, view.series, state.setup.phases);
+  const withdrawn = withdrawnPhases(state.setup.phases, characteristicId);
+  // Phases in force and withdrawn ones, in the order they were started: the record shows what happened.
+  const listed: ({ kind: 'row'; row: LimitsHistoryRow } | { kind: 'withdrawn'; phase: Phase })[] = [
+    ...rows.map((row) => ({ kind: 'row' as const, row })), ...withdrawn.map((phase) => ({ kind: 'withdrawn' as const, phase })),
+  ].sort((a, b) => (a.kind === 'row' ? a.row.number : a.phase.number) - (b.kind === 'row' ? b.row.number : b.phase.number));
+  const byId = new Map(state.setup.phases.map((p) => [p.id, p]));
+  const mayChange = canChangePhases(state.person?.role);
+  const nameOf = (id: string) => state.setup.people.find((p) => p.id === id)?.name ?? id;
+  const noteText = (verb: string, n: PhaseNote) => `${verb} ${formatShortDateTime(n.at)} by ${nameOf(n.by)}: ${n.note}`;
+  const open = (phaseId: string) => actions.open({ name: 'edit-phase', characteristicId, phaseId });
   const d = ch.decimals + 2;
   const f = (v: number | null) => (v === null ? '—' : v.toFixed(d));
   const delta = (v: number | null | undefined) => (v === null || v === undefined ? null : `${v >= 0 ? '+' : '−'}${Math.abs(v).toFixed(d)}`);
@@ -40,24 +53,45 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
             </tr>
           </thead>
           <tbody>
-            {rows.map((r) => (
-              <tr key={r.number} data-testid={`history-row-${r.number}`}>
-                <th scope="row">Phase {r.number}</th>
-                <td data-label="Starts">{r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</td>
-                <td data-label="Reason">{r.reason}</td>
-                <td data-label="Limits set by">{how(r)}</td>
-                <td data-label="Centre">{f(r.centre)}<span class="delta">{delta(r.change?.centre)}</span></td>
-                <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.ucl)}</span></td>
-                <td data-label="LCL">{f(r.lcl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.lcl)}</span></td>
-                <td data-label="Sigma">{f(r.sigma)} <span class="delta">{SIGMA_METHOD_TEXT[r.sigmaMethod]}{r.change?.sigmaRatio ? ` · ${percentChange(r.change.sigmaRatio)} vs phase before` : ''}</span></td>
-                <td data-label="Points">{r.points}</td>
-                <td data-label="Points with signals">{r.signalPoints}</td>
-              </tr>
-            ))}
+            {listed.map((item) => {
+              if (item.kind === 'withdrawn') {
+                const p = item.phase;
+                return (
+                  <tr key={`w${p.number}`} class="withdrawn-row" data-testid={`history-row-${p.number}`}>
+                    <th scope="row">Phase {p.number} <span class="phase-note">withdrawn</span></th>
+                    <td data-label="Starts">{formatShortDateTime(p.startsAt)}</td>
+                    <td data-label="Reason">{p.reason}{correctionLines(p, ch, nameOf, formatShortDateTime).map((l) => <span key={l} class="phase-note">{l}</span>)}
+                      <span class="phase-note" data-testid={`withdrawn-note-${p.number}`}>{noteText('Withdrawn', p.withdrawn!)}</span></td>
+                    <td data-label="Limits set by" colSpan={7}>Not used: its points are judged against the phase before.</td>
+                  </tr>
+                );
+              }
+              const r = item.row;
+              const setupPhase = r.phaseId ? byId.get(r.phaseId) : undefined;
+              return (
+                <tr key={r.number} data-testid={`history-row-${r.number}`}>
+                  <th scope="row">Phase {r.number}
+                    {mayChange && setupPhase && isChangeablePhase(setupPhase) ? (
+                      <button type="button" class="btn small no-print" style="display:block;margin-top:6px" onClick={() => open(setupPhase.id)}
+                        aria-label={`Correct or withdraw phase ${r.number}`} data-testid={`change-phase-${r.number}`}>Correct…</button>
+                    ) : null}
+                  </th>
+                  <td data-label="Starts">{r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</td>
+                  <td data-label="Reason">{r.reason}{setupPhase ? correctionLines(setupPhase, ch, nameOf, formatShortDateTime).map((l) => <span key={l} class="phase-note">{l}</span>) : null}</td>
+                  <td data-label="Limits set by">{how(r)}</td>
+                  <td data-label="Centre">{f(r.centre)}<span class="delta">{delta(r.change?.centre)}</span></td>
+                  <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.ucl)}</span></td>
+                  <td data-label="LCL">{f(r.lcl)}{r.limitsVary ? ' (latest)' : ''}<span class="delta">{delta(r.change?.lcl)}</span></td>
+                  <td data-label="Sigma">{f(r.sigma)} <span class="delta">{SIGMA_METHOD_TEXT[r.sigmaMethod]}{r.change?.sigmaRatio ? ` · ${percentChange(r.change.sigmaRatio)} vs phase before` : ''}</span></td>
+                  <td data-label="Points">{r.points}</td>
+                  <td data-label="Points with signals">{r.signalPoints}</td>
+                </tr>
+              );
+            })}
           </tbody>
         </table>
       </div>
-      <p class="hint">Changes under each figure are against the phase before. Limits marked “latest” vary with the sample size (or settle over time on an EWMA chart); the row shows them at the phase's latest point.</p>
+      <p class="hint">Changes under each figure are against the phase before. Limits marked “latest” vary with the sample size (or settle over time on an EWMA chart); the row shows them at the phase's latest point.{mayChange ? ' A phase started at the wrong point, with the wrong reason or limits, or by mistake can be corrected or withdrawn; the note saying why stays in this history.' : ''}</p>
     </main>
   );
 }

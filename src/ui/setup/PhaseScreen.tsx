@@ -1,12 +1,15 @@
 import { useState } from 'preact/hooks';
 import type { AppActions, AppState } from '../../app/app-state';
 import { newPhaseForm, phaseEntriesFromForm, startChoices, type PhaseField, type PhaseForm } from '../../app/phase-form';
-import { isVariableChart } from '../../schema';
+import { newPhaseConfirmation } from '../../app/phase-change';
+import { isVariableChart, type Phase } from '../../schema';
 import { formatShortDateTime } from '../format-time';
 import { focusFirstProblem } from './focus-first-problem';
+import { ConfirmChange } from './ConfirmChange';
 import { OfflineNotice } from './OfflineNotice';
 import { TextField } from './TextField';
 import './setup.css';
+import './phase-change.css';
 
 const drafts = new Map<string, PhaseForm>();
 
@@ -25,12 +28,15 @@ export function PhaseScreen({ state, actions, characteristicId, fromSampleId }: 
   const [tried, setTried] = useState(false);
   const [busy, setBusy] = useState(false);
   const [sendFailed, setSendFailed] = useState(false);
+  /** The phase entries waiting for the engineer's confirmation (what changes on the chart is shown first). */
+  const [pending, setPending] = useState<Phase[] | null>(null);
   if (state.person?.role !== 'engineer' && state.person?.role !== 'admin') return <main class="main"><p>Only a quality engineer or an admin can start a phase.</p></main>;
   if (!ch || !form) return <main class="main"><p>This characteristic is not set up on this tablet.</p></main>;
   if (!view) return <main class="main"><p class="hint">Loading chart…</p></main>;
   const setForm = (next: PhaseForm) => {
     drafts.set(characteristicId, next);
     setFormState(next);
+    setPending(null);
   };
   const input = (field: keyof PhaseForm, value: string) => {
     setForm({ ...form, [field]: value });
@@ -46,20 +52,24 @@ export function PhaseScreen({ state, actions, characteristicId, fromSampleId }: 
   const choices = startChoices(ctx);
   const d = ch.decimals + 1;
   const back = () => actions.open({ name: 'characteristic', characteristicId });
-  const save = async (e: Event) => {
+  const review = (e: Event) => {
     e.preventDefault();
     setTried(true);
     // Re-read "now" at the moment of saving: the phase starts with the next sample.
     const fresh = phaseEntriesFromForm(form, { ...ctx, now: Date.now() });
     if (!fresh.ok) return focusFirstProblem();
+    setPending(fresh.value);
+  };
+  const save = async () => {
+    if (!pending) return;
     setBusy(true);
-    const ok = await actions.saveSetup(fresh.value.map((p) => ({ kind: 'phase', id: p.id, body: p })), `The new phase of ${ch.name}`);
+    const ok = await actions.saveSetup(pending.map((p) => ({ kind: 'phase', id: p.id, body: p })), `The new phase of ${ch.name}`);
     setBusy(false);
     setSendFailed(!ok);
     if (ok) {
       drafts.delete(characteristicId);
       back();
-    }
+    } else setPending(null);
   };
   return (
     <main class="main stack setup-screen">
@@ -67,7 +77,7 @@ export function PhaseScreen({ state, actions, characteristicId, fromSampleId }: 
       <h1>Start a new phase of “{ch.name}”</h1>
       <p class="hint">Start a phase after a documented change to the process (new tool, new material, a method change), not to make a signal go away. The earlier phases keep their limits.</p>
       <OfflineNotice sync={state.sync} />
-      <form class="stack" onSubmit={save} noValidate data-testid="phase-form">
+      <form class="stack" onSubmit={review} noValidate data-testid="phase-form">
         <section class="card stack">
           <div class="entry-field setup-field">
             <label for="ph-reason">Reason: the documented process change</label>
@@ -121,10 +131,16 @@ export function PhaseScreen({ state, actions, characteristicId, fromSampleId }: 
         </section>
         {tried && !result.ok ? <p class="error-text" role="alert">Some fields need attention (marked above); nothing was sent.</p> : null}
         {sendFailed && state.error ? <p class="error-text" role="status" data-testid="send-failed">{state.error}</p> : null}
-        <div class="row">
-          <button type="submit" class="btn primary" disabled={busy} data-testid="save-phase">{busy ? 'Saving…' : 'Start the new phase'}</button>
-          <button type="button" class="btn" onClick={back}>Cancel</button>
-        </div>
+        {pending ? (
+          <ConfirmChange title={`Start phase ${pending[pending.length - 1]?.number ?? ''}?`} testId="confirm-phase" busy={busy} confirmLabel="Yes, start the new phase"
+            lines={[newPhaseConfirmation(pending, { characteristic: ch, phases: state.setup.phases, samples: view.series.samples }), 'Earlier phases keep their limits. A phase started by mistake can be withdrawn later from the limits history.']}
+            onConfirm={() => void save()} onBack={() => setPending(null)} />
+        ) : (
+          <div class="row">
+            <button type="submit" class="btn primary" disabled={busy} data-testid="save-phase">Start the new phase…</button>
+            <button type="button" class="btn" onClick={back}>Cancel</button>
+          </div>
+        )}
       </form>
     </main>
   );
