@@ -29,10 +29,9 @@ export function EntryPanel({ view, actions, separator }: { view: CharacteristicV
   const [comment, setComment] = useState('');
   const [problem, setProblem] = useState<string | null>(null);
   const [confirmTypo, setConfirmTypo] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
+  /** Saves under way (a gauge or a quick hand can send the next reading before the last is on disk). */
+  const [saving, setSaving] = useState(0);
   const inputs = useRef<(HTMLInputElement | null)[]>([]);
-  /** A save is under way: a second tap on Save (gloves, a slow tablet) must not save the sample twice. */
-  const saving = useRef(false);
   useEffect(() => { setTexts(initial()); setActive(0); setConfirmTypo(null); setProblem(null); }, [ch.id]);
 
   const field = fields[active];
@@ -40,7 +39,6 @@ export function EntryPanel({ view, actions, separator }: { view: CharacteristicV
   const phase = view.analysis.phases[view.analysis.phases.length - 1];
 
   const save = async (confirmed: boolean) => {
-    if (saving.current) return;
     const bad = parsed.findIndex((p) => !p.ok);
     if (bad >= 0) {
       const p = parsed[bad]!;
@@ -69,17 +67,26 @@ export function EntryPanel({ view, actions, separator }: { view: CharacteristicV
       }
       entry = inspected !== undefined ? { count: count!, inspected } : { count: count! };
     }
-    saving.current = true;
-    setBusy(true);
-    const ok = await actions.record(ch.id, { ...entry, ...(lot.trim() ? { lot: lot.trim() } : {}), ...(comment.trim() ? { comment: comment.trim() } : {}) })
-      .finally(() => { saving.current = false; });
-    setBusy(false);
-    if (ok) {
-      setTexts(initial());
-      setComment('');
-      setActive(0);
-      setProblem(null);
-      setConfirmTypo(null);
+    // The fields are emptied at once, not when the save is done: the next reading can be typed (or
+    // sent by a gauge, value and Enter) while this one is written, and a second tap on Save finds
+    // nothing to save twice. If the save fails, what was typed comes back — unless a new reading
+    // has been typed meanwhile — and the app's error says why.
+    const typed = texts;
+    const typedComment = comment;
+    setTexts(initial());
+    setComment('');
+    setActive(0);
+    setProblem(null);
+    setConfirmTypo(null);
+    inputs.current[0]?.focus();
+    setSaving((n) => n + 1);
+    const ok = await actions.record(ch.id, { ...entry, ...(lot.trim() ? { lot: lot.trim() } : {}), ...(typedComment.trim() ? { comment: typedComment.trim() } : {}) })
+      .catch(() => false);
+    setSaving((n) => n - 1);
+    if (!ok) {
+      const empty = initial();
+      setTexts((now) => (fields.every((f) => (now[f.key] ?? '') === empty[f.key]) ? typed : now));
+      setComment((now) => now || typedComment);
     }
   };
 
@@ -113,7 +120,7 @@ export function EntryPanel({ view, actions, separator }: { view: CharacteristicV
         ))}
       </div>
       <Keypad separator={separator} allowDecimal={(field?.decimals ?? 0) > 0} allowMinus={field?.allowMinus ?? false} onKey={onKey}
-        nextLabel={active < fields.length - 1 ? 'Next value' : busy ? 'Saving…' : 'Save sample'} />
+        nextLabel={active < fields.length - 1 ? 'Next value' : saving > 0 ? 'Saving…' : 'Save sample'} />
       {problem ? <p class="error-text" role="alert">{problem}</p> : null}
       {confirmTypo ? (
         <div class="caution stack" role="alert" style="gap:10px">

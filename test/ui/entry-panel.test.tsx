@@ -92,21 +92,42 @@ describe('EntryPanel: variable charts', () => {
     render(<EntryPanel view={view(makeCharacteristic(), [], T0)} actions={actions} separator="," />);
     press('1', '0', 'next');
     expect(screen.getByRole('button', { name: 'Saving…' })).toBeTruthy();
-    press('next', 'next');
+    press('next', 'next'); // the fields were emptied at once: nothing to save again
     expect(actions.record).toHaveBeenCalledTimes(1);
     await act(() => finish(true));
     await waitFor(() => expect(screen.getByRole('button', { name: 'Save sample' })).toBeTruthy());
-    press('9', 'next'); // the next sample saves normally
-    expect(actions.record).toHaveBeenCalledTimes(2);
   });
 
-  it('a failed save keeps what was typed', async () => {
+  it('the next reading can be typed and saved while the last one is still being written (a gauge sends value and Enter)', async () => {
+    const actions = fakeActions();
+    const finishers: ((ok: boolean) => void)[] = [];
+    actions.record.mockImplementation(() => new Promise<boolean>((r) => { finishers.push(r); }));
+    render(<EntryPanel view={view(makeCharacteristic(), [], T0)} actions={actions} separator="," />);
+    typeInto('Value (mm)', '10,1');
+    fireEvent.keyDown(input('Value (mm)'), { key: 'Enter' });
+    expect(input('Value (mm)').value).toBe(''); // emptied at once, before the write is done
+    typeInto('Value (mm)', '10,2');
+    fireEvent.keyDown(input('Value (mm)'), { key: 'Enter' });
+    typeInto('Value (mm)', '10,3'); // typed while both are still being written
+    expect(actions.record.mock.calls.map((c) => c[1])).toEqual([{ values: [10.1] }, { values: [10.2] }]);
+    await act(() => { for (const f of finishers) f(true); });
+    expect(input('Value (mm)').value).toBe('10,3'); // the end of a save does not wipe the next reading
+  });
+
+  it('a failed save gives back what was typed, unless a new reading is being typed', async () => {
     const actions = fakeActions();
     actions.record.mockResolvedValueOnce(false);
     render(<EntryPanel view={view(makeCharacteristic(), [], T0)} actions={actions} separator="," />);
     press('1', '0', 'next');
     await waitFor(() => expect(actions.record).toHaveBeenCalledTimes(1));
-    expect(input('Value (mm)').value).toBe('10');
+    await waitFor(() => expect(input('Value (mm)').value).toBe('10'));
+
+    let fail!: (ok: boolean) => void;
+    actions.record.mockImplementationOnce(() => new Promise<boolean>((r) => { fail = r; }));
+    press('next'); // saves 10 again; this time the write fails later
+    typeInto('Value (mm)', '11');
+    await act(() => fail(false));
+    expect(input('Value (mm)').value).toBe('11');
   });
 });
 
