@@ -156,10 +156,16 @@ function phaseInRange(start: number, end: number, range: ReportRange): boolean {
   return start < end ? start < range.to && end > range.from : start >= range.from && start <= range.to;
 }
 
+function unwithdrawn(p: Phase): Phase {
+  const { withdrawn: _w, ...rest } = p;
+  return rest;
+}
+
 /**
  * One phase as the report lists it. In force: its limits-history row and, when set up, the phase with
  * its corrections. Withdrawn: the phase (with its corrections and the withdrawal note) and the points
- * [from, to) it would hold had it not been withdrawn, now judged against phase `judgedBy`.
+ * [from, to) it would hold had it not been withdrawn (up to the next phase, withdrawn or not), now judged
+ * against phase `judgedBy`.
  */
 export type ReportPhase =
   | { readonly kind: 'in-force'; readonly number: number; readonly row: LimitsHistoryRow; readonly phase?: Phase }
@@ -179,9 +185,10 @@ export function phasesInRange(view: CharacteristicView, phases: SetupView['phase
   const n = view.analysis.points.length;
   const withdrawn: ReportPhase[] = [];
   for (const phase of withdrawnPhases(phases, view.characteristic.id)) {
-    // Where it would stand: the same phases with this one put back in force.
-    const { withdrawn: _w, ...restored } = phase;
-    const span = phaseSpans(view.characteristic, phases.map((p) => (p.id === phase.id ? restored : p)), samples).find((s) => s.phase.id === phase.id);
+    // Where it stood: this phase put back in force, and the withdrawn ones after it too, so that its points end
+    // where the next phase (in force or not) begins and two withdrawn phases never claim the same points.
+    const restored = phases.map((p) => (p.withdrawn && p.characteristicId === phase.characteristicId && p.number >= phase.number ? unwithdrawn(p) : p));
+    const span = phaseSpans(view.characteristic, restored, samples).find((s) => s.phase.id === phase.id);
     const at = samples.findIndex((s) => Date.parse(s.takenAt) >= Date.parse(phase.startsAt));
     const from = Math.min(span?.start ?? (at < 0 ? samples.length : at), n);
     const to = Math.min(span?.end ?? from, n);

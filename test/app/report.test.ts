@@ -199,6 +199,13 @@ describe('phasesInRange(): corrected and withdrawn phases', () => {
     expect(numbers(30, 39)).toEqual([3]);
   });
 
+  it('two withdrawn phases in a row each keep their own points, judged against the phase in force before them', () => {
+    const both = phases.map((p) => (p.number === 3 ? { ...p, withdrawn: { at: iso(T0 + 27 * DAY), by: 'p-eng', note: 'Holder not changed after all' } } : p));
+    const v = buildCharacteristicView(ch, both, samples, [], [], T0 + 46 * DAY);
+    const withdrawn = phasesInRange(v, both, { from: 0, to: 40 }).filter((e) => e.kind === 'withdrawn');
+    expect(withdrawn.map((e) => e.kind === 'withdrawn' && [e.number, e.from, e.to, e.judgedBy])).toEqual([[2, 10, 25, 1], [3, 25, 40, 1], [4, 40, 40, undefined]]);
+  });
+
   it('says the corrections and the withdrawal in words, through the helpers the limits history uses', () => {
     const nameOf = (id: string) => (id === 'p-eng' ? 'Elif' : id);
     const time = (t: string) => t.slice(0, 10);
