@@ -48,6 +48,9 @@ const EXPORT_HEAD = ['point', 'sample_id', 'taken_at', 'characteristic', 'unit']
 const EXPORT_ROLES: Readonly<Record<string, ColumnRole>> = {
   sample_id: 'sampleId', taken_at: 'takenAt', count: 'count', inspected: 'inspected', lot: 'lot', comment: 'comment',
   excluded: 'excluded', correction_or_exclusion_reason: 'reason',
+  // Where a sample once came from is not read back: the import records the file being imported now.
+  // Re-imported samples keep their ids all the same (import-check.ts), so nothing is recorded twice.
+  imported_from: 'ignore',
 };
 
 /** Header words of a hand-typed layout, compared without case, spaces, dashes or underscores. */

@@ -213,3 +213,9 @@ export function correctionLines(phase: Phase, ch: Characteristic, nameOf: (perso
     return `Corrected ${formatTime(c.at)} by ${nameOf(c.by)}: ${c.note}${parts.length ? ` (${parts.join('; ')})` : ''}`;
   });
 }
+
+/** A withdrawn phase's note in words: "Withdrawn <when> by <who>: <why>" (undefined for a phase in force). Pure. */
+export function withdrawalLine(phase: Phase, nameOf: (personId: string) => string, formatTime: (iso: string) => string): string | undefined {
+  const w = phase.withdrawn;
+  return w ? `Withdrawn ${formatTime(w.at)} by ${nameOf(w.by)}: ${w.note}` : undefined;
+}

@@ -1,7 +1,8 @@
-import type { Characteristic, Person, RuleId } from '../schema';
+import type { Characteristic, Person, Phase, RuleId } from '../schema';
 import { DEFAULT_CUSUM, DEFAULT_EWMA } from './analysis-input';
 import type { CharacteristicView, SetupView } from './app-state';
-import { limitsHistory, type LimitsHistoryRow } from './limits-history';
+import { limitsHistory, withdrawnPhases, type LimitsHistoryRow } from './limits-history';
+import { phaseSpans } from './phase-change';
 import type { SignalGroup } from './signal-state';
 
 /** The stretch of history a printed report covers. */
@@ -146,9 +147,57 @@ export function limitsInRange(view: CharacteristicView, phases: SetupView['phase
   return rows.filter((_, i) => {
     const ph = view.analysis.phases[i];
     if (!ph) return false;
-    const end = Math.min(ph.end, view.analysis.points.length);
-    return ph.start < end ? ph.start < range.to && end > range.from : ph.start >= range.from && ph.start <= range.to;
+    return phaseInRange(ph.start, Math.min(ph.end, view.analysis.points.length), range);
   });
+}
+
+/** Whether a phase spanning points [start, end) belongs in the period: it has points in it, or (empty) starts in it. */
+function phaseInRange(start: number, end: number, range: ReportRange): boolean {
+  return start < end ? start < range.to && end > range.from : start >= range.from && start <= range.to;
+}
+
+function unwithdrawn(p: Phase): Phase {
+  const { withdrawn: _w, ...rest } = p;
+  return rest;
+}
+
+/**
+ * One phase as the report lists it. In force: its limits-history row and, when set up, the phase with
+ * its corrections. Withdrawn: the phase (with its corrections and the withdrawal note) and the points
+ * [from, to) it would hold had it not been withdrawn (up to the next phase, withdrawn or not), now judged
+ * against phase `judgedBy`.
+ */
+export type ReportPhase =
+  | { readonly kind: 'in-force'; readonly number: number; readonly row: LimitsHistoryRow; readonly phase?: Phase }
+  | { readonly kind: 'withdrawn'; readonly number: number; readonly phase: Phase; readonly from: number; readonly to: number; readonly judgedBy?: number };
+
+/**
+ * The phases of the period, by number: those in force (limitsInRange) and the withdrawn ones whose
+ * points, had they not been withdrawn, lie in the period (or, with none, that start in it). Pure.
+ */
+export function phasesInRange(view: CharacteristicView, phases: SetupView['phases'], range: ReportRange): ReportPhase[] {
+  const byId = new Map(phases.map((p) => [p.id, p]));
+  const inForce: ReportPhase[] = limitsInRange(view, phases, range).map((row) => {
+    const phase = row.phaseId ? byId.get(row.phaseId) : undefined;
+    return { kind: 'in-force', number: row.number, row, ...(phase ? { phase } : {}) };
+  });
+  const samples = view.series.samples;
+  const n = view.analysis.points.length;
+  const withdrawn: ReportPhase[] = [];
+  for (const phase of withdrawnPhases(phases, view.characteristic.id)) {
+    // Where it stood: this phase put back in force, and the withdrawn ones after it too, so that its points end
+    // where the next phase (in force or not) begins and two withdrawn phases never claim the same points.
+    const restored = phases.map((p) => (p.withdrawn && p.characteristicId === phase.characteristicId && p.number >= phase.number ? unwithdrawn(p) : p));
+    const span = phaseSpans(view.characteristic, restored, samples).find((s) => s.phase.id === phase.id);
+    const at = samples.findIndex((s) => Date.parse(s.takenAt) >= Date.parse(phase.startsAt));
+    const from = Math.min(span?.start ?? (at < 0 ? samples.length : at), n);
+    const to = Math.min(span?.end ?? from, n);
+    if (!phaseInRange(from, to, range)) continue;
+    const holder = view.analysis.phases.find((ph) => ph.start <= from && from < ph.end);
+    const judgedBy = from < to && holder ? byId.get(view.series.phaseIds[holder.index] ?? '')?.number ?? holder.index + 1 : undefined;
+    withdrawn.push({ kind: 'withdrawn', number: phase.number, phase, from, to, ...(judgedBy !== undefined ? { judgedBy } : {}) });
+  }
+  return [...inForce, ...withdrawn].sort((a, b) => a.number - b.number);
 }
 
 /**

@@ -162,6 +162,42 @@ describe('round trip with historyToCsv()', () => {
     const { checked } = importText(exported, ch, { existing: samples });
     expect(summarizeImport(checked).already).toBe(20);
   });
+
+  it('an export holding imported samples says where each came from, and importing it back records nothing twice', () => {
+    const ch = makeCharacteristic({ id: 'ch-bore' });
+    const plain = 'time,value,comment\n2026-12-01 08:00,10.01,a\n2026-12-01 09:00,10.02,"b, with a comma"\n2026-12-01 10:00,9.98,\n';
+    const first = samplesToImport(importText(plain, ch, { fileName: 'old gauge.csv' }).checked, false);
+    expect(first).toHaveLength(3);
+    // Two samples entered here after the imported history.
+    const entered = [sampleAt(48 * 60 + 10, { characteristicId: 'ch-bore', values: [10.0] }), sampleAt(48 * 60 + 20, { characteristicId: 'ch-bore', values: [10.03] })];
+    const onChart = [...first, ...entered];
+    const exported = historyToCsv(buildCharacteristicView(ch, [], onChart, [], [], T0), (id) => id);
+    const table = readCsvTable(exported);
+    expect(table.rows[0]!.cells.at(-1)).toBe('imported_from');
+    expect(table.rows.slice(1).map((r) => r.cells.at(-1))).toEqual(['old gauge.csv, line 2', 'old gauge.csv, line 3', 'old gauge.csv, line 4', '', '']);
+
+    // Still our own export: the new column is read as nothing.
+    const later = { now: T0 + 72 * 60 * MINUTE };
+    const same = importText(exported, ch, { ...later, existing: onChart, fileName: 'ch-bore-history.csv' });
+    expect(same.layout).toBe('export');
+    expect(same.mapping.roles.at(-1)).toBe('ignore');
+    // Back into its own chart: every row is already there, the imported ones too.
+    expect(summarizeImport(same.checked)).toEqual({ ready: 0, check: 0, problem: 0, already: 5 });
+    // Into its own chart on a tablet that has not received the imported samples yet: they come back with the ids
+    // they already have (so the sync stores each once); the entered ones are known by their sample_id.
+    const fresh = importText(exported, ch, { ...later, existing: entered, fileName: 'ch-bore-history.csv' });
+    expect(fresh.checked.map((r) => r.status)).toEqual(['ready', 'ready', 'ready', 'already', 'already']);
+    expect(samplesToImport(fresh.checked, false).map((s) => s.id)).toEqual(first.map((s) => s.id));
+
+    // Into another characteristic: the same samples, recorded as coming from the export, line by line; a second import adds nothing.
+    const other = { ...ch, id: 'ch-bore-2' };
+    const moved = samplesToImport(importText(exported, other, { ...later, fileName: 'ch-bore-history.csv' }).checked, false);
+    const essence = (s: Sample) => ({ takenAt: s.takenAt, values: s.values, comment: s.comment });
+    expect(moved.map(essence)).toEqual(onChart.map(essence));
+    expect(moved.map((s) => s.imported)).toEqual([2, 3, 4, 5, 6].map((line) => ({ file: 'ch-bore-history.csv', line })));
+    const again = importText(exported, other, { ...later, existing: moved });
+    expect(summarizeImport(again.checked)).toEqual({ ready: 0, check: 0, problem: 0, already: 5 });
+  });
 });
 
 describe('a plain layout typed in a spreadsheet', () => {

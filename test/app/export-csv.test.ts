@@ -48,4 +48,18 @@ describe('historyToCsv()', () => {
     expect(data[20]![col('answered_by')]).toBe('Odile');
     expect(Number(data[0]![col('ucl')])).toBeCloseTo(view.analysis.points[0]!.ucl!, 10);
   });
+
+  it('ends with imported_from: the file and line of an imported sample, quoted as RFC 4180 says; empty for one entered here', () => {
+    const samples = individuals(BASELINE.slice(0, 3));
+    samples[0] = { ...samples[0]!, imported: { file: 'line 4 "old", 2025.csv', line: 12 } };
+    samples[1] = { ...samples[1]!, imported: { file: 'paper.csv', line: 3 } };
+    const csv = historyToCsv(buildCharacteristicView(makeCharacteristic(), [], samples, [], [], T0), (id) => id);
+    const [header, ...data] = parseCsv(csv);
+    expect(header![header!.length - 1]).toBe('imported_from');
+    expect(data.map((r) => r[r.length - 1])).toEqual(['line 4 "old", 2025.csv, line 12', 'paper.csv, line 3', '']);
+    // Every row has as many fields as the header.
+    expect(data.every((r) => r.length === header!.length)).toBe(true);
+    expect(csv.split('\r\n')[1]!.endsWith(',"line 4 ""old"", 2025.csv, line 12"')).toBe(true);
+    expect(csv.split('\r\n')[3]!.endsWith(',')).toBe(true);
+  });
 });

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { buildCharacteristicView } from '../../src/app/build-view';
 import { limitsHistory } from '../../src/app/limits-history';
+import { correctionLines, withdrawalLine } from '../../src/app/phase-change';
 import {
-  capabilityScope, limitsInRange, reportHeader, reportRange, rulesText, signalCounts, signalsInRange, specificationText,
+  capabilityScope, limitsInRange, phasesInRange, reportHeader, reportRange, rulesText, signalCounts, signalsInRange, specificationText,
 } from '../../src/app/report';
 import type { SignalGroup } from '../../src/app/signal-state';
 import { BASELINE, MINUTE, T0, individuals, iso, makeAck, makeCharacteristic, makePhase, makeResponse, sampleAt } from './helpers';
@@ -156,5 +157,62 @@ describe('limitsInRange()', () => {
   it('capabilityScope() says when the studied phase reaches outside the period', () => {
     expect(capabilityScope(view, { from: 25, to: 40 })).toEqual({ phase: 2, from: 25, to: 40, outside: false });
     expect(capabilityScope(view, { from: 33, to: 40 })).toEqual({ phase: 2, from: 25, to: 40, outside: true });
+  });
+});
+
+describe('phasesInRange(): corrected and withdrawn phases', () => {
+  const ch = makeCharacteristic();
+  const samples = daily(40);
+  const phases = [
+    makePhase({ number: 1, startsAt: iso(T0), reason: 'First limits' }),
+    // Started at point 11, withdrawn two days later.
+    makePhase({ number: 2, startsAt: iso(T0 + 10 * DAY - HOUR), reason: 'New insert', withdrawn: { at: iso(T0 + 12 * DAY), by: 'p-eng', note: 'Started by mistake: the insert was not changed' } }),
+    // Started at point 21 first, then moved to point 26 with given limits.
+    makePhase({
+      number: 3, startsAt: iso(T0 + 25 * DAY - HOUR), reason: 'New holder, second fitting', given: { centre: 10, sigma: 0.08 },
+      corrections: [{ at: iso(T0 + 26 * DAY), by: 'p-eng', note: 'The holder was fitted on day 25', was: { startsAt: iso(T0 + 20 * DAY - HOUR), reason: 'New holder' } }],
+    }),
+    // Started after the newest point and withdrawn before it had any.
+    makePhase({ number: 4, startsAt: iso(T0 + 45 * DAY), reason: 'Gauge swap', withdrawn: { at: iso(T0 + 45 * DAY + HOUR), by: 'p-eng', note: 'Wrong characteristic' } }),
+  ];
+  const view = buildCharacteristicView(ch, phases, samples, [], [], T0 + 46 * DAY);
+
+  it('lists the withdrawn phases among those in force, by number, with the points they would hold', () => {
+    const all = phasesInRange(view, phases, { from: 0, to: 40 });
+    expect(all.map((e) => [e.number, e.kind])).toEqual([[1, 'in-force'], [2, 'withdrawn'], [3, 'in-force'], [4, 'withdrawn']]);
+    // Phase 2's points 11–25 are judged against phase 1; phase 4 never had points.
+    expect(all[1]).toEqual({ kind: 'withdrawn', number: 2, phase: phases[1], from: 10, to: 25, judgedBy: 1 });
+    expect(all[3]).toEqual({ kind: 'withdrawn', number: 4, phase: phases[3], from: 40, to: 40 });
+    // The rows in force are limitsInRange()'s own, with the set-up phase (its corrections) beside them.
+    const inForce = all.filter((e) => e.kind === 'in-force');
+    expect(inForce.map((e) => e.row)).toEqual(limitsInRange(view, phases, { from: 0, to: 40 }));
+    expect(inForce.map((e) => e.phase)).toEqual([phases[0], phases[2]]);
+  });
+
+  it('keeps a withdrawn phase only where its points (or, with none, its start) fall in the period', () => {
+    const numbers = (from: number, to: number) => phasesInRange(view, phases, { from, to }).map((e) => e.number);
+    expect(numbers(0, 10)).toEqual([1]); // phase 2 would begin at point 11
+    expect(numbers(12, 20)).toEqual([1, 2]);
+    expect(numbers(24, 26)).toEqual([1, 2, 3]);
+    expect(numbers(30, 40)).toEqual([3, 4]);
+    // A period that stops before the newest point leaves out the phase withdrawn after it.
+    expect(numbers(30, 39)).toEqual([3]);
+  });
+
+  it('two withdrawn phases in a row each keep their own points, judged against the phase in force before them', () => {
+    const both = phases.map((p) => (p.number === 3 ? { ...p, withdrawn: { at: iso(T0 + 27 * DAY), by: 'p-eng', note: 'Holder not changed after all' } } : p));
+    const v = buildCharacteristicView(ch, both, samples, [], [], T0 + 46 * DAY);
+    const withdrawn = phasesInRange(v, both, { from: 0, to: 40 }).filter((e) => e.kind === 'withdrawn');
+    expect(withdrawn.map((e) => e.kind === 'withdrawn' && [e.number, e.from, e.to, e.judgedBy])).toEqual([[2, 10, 25, 1], [3, 25, 40, 1], [4, 40, 40, undefined]]);
+  });
+
+  it('says the corrections and the withdrawal in words, through the helpers the limits history uses', () => {
+    const nameOf = (id: string) => (id === 'p-eng' ? 'Elif' : id);
+    const time = (t: string) => t.slice(0, 10);
+    expect(withdrawalLine(phases[1]!, nameOf, time)).toBe('Withdrawn 2026-12-14 by Elif: Started by mistake: the insert was not changed');
+    expect(withdrawalLine(phases[2]!, nameOf, time)).toBeUndefined();
+    expect(correctionLines(phases[2]!, ch, nameOf, time)).toEqual([
+      'Corrected 2026-12-28 by Elif: The holder was fitted on day 25 (reason was “New holder”; started 2026-12-22; limits were from its first 20 subgroups)',
+    ]);
   });
 });

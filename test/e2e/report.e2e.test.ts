@@ -1,13 +1,13 @@
 /**
  * The printable report in Chromium: an operator opens the demo's safety-critical torque characteristic,
- * opens its report, finds the header, limits by phase, the signals with their responses and the
- * safety caution; printed (print media) there is no top bar or button, and Chromium makes a PDF of it.
+ * opens its report, finds the header, limits by phase (with two withdrawn phases, one corrected before), the
+ * signals with their responses and the safety caution; printed (print media) there is no top bar or button, and Chromium makes a PDF of it.
  * The preview passes axe (WCAG 2.1 AA) in both themes at 1280×800 and 800×1280.
  */
 import { writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { DEMO_SITE_NAME } from '../../src/server/demo/demo-site';
+import { DEMO_SITE_ID, DEMO_SITE_NAME } from '../../src/server/demo/demo-site';
 import { checkAtTabletSizes, SHOTS } from './axe';
 import { browserAvailable } from './browser';
 import { enrolAndSignIn, pageOf, useDemoSite } from './site';
@@ -24,6 +24,22 @@ describe.skipIf(!run)('printable report', () => {
     const page = await pageOf(fx.tablets()[0]!);
     const errors: string[] = [];
     page.on('pageerror', (e) => errors.push(e.message));
+    // Two later phases of the torque characteristic, both withdrawn (so the chart and its signals stay as seeded):
+    // phase 3 was corrected once before it was withdrawn. The report lists both with who, when and why.
+    const ph1 = (await site.store.getSetup('phase', 'bonnet-torque-ph1'))!.body as { startsAt: string };
+    const start = Date.parse(ph1.startsAt);
+    const at = (share: number) => new Date(start + (Date.now() - start) * share).toISOString();
+    const phase = (n: number, share: number, extra: object) => ({
+      siteId: DEMO_SITE_ID,
+      record: { kind: 'phase' as const, id: `bonnet-torque-ph${n}`, body: { id: `bonnet-torque-ph${n}`, characteristicId: 'bonnet-torque', number: n, startsAt: at(share), reason: `Nutrunner ${n} fitted`, ...extra } },
+    });
+    await site.store.appendSetup([
+      phase(2, 0.4, { withdrawn: { at: at(0.45), by: 'p-imogen', note: 'Started on the wrong characteristic' } }),
+      phase(3, 0.7, {
+        corrections: [{ at: at(0.72), by: 'p-imogen', note: 'Typo in the tool number', was: { startsAt: at(0.7), reason: 'Nutrunner 8 fitted' } }],
+        withdrawn: { at: at(0.75), by: 'p-imogen', note: 'The tool was not changed after all' },
+      }),
+    ], new Date().toISOString());
     await enrolAndSignIn(page, site, 'rana', '2468', 'Assembly tablet');
 
     // The torque characteristic lives at the bonnet assembly station.
@@ -56,6 +72,8 @@ describe.skipIf(!run)('printable report', () => {
     }
     expect(await sheet.getByTestId('safety-caution').innerText()).toContain('Safety-critical characteristic.');
     expect(await sheet.getByTestId('report-phase-1').innerText()).toMatch(/Phase 1[\s\S]*Baseline of 25 subgroups/);
+    expect(await sheet.getByTestId('report-phase-2').innerText()).toMatch(/Phase 2[\s\S]*Withdrawn[\s\S]*Withdrawn .+ by Imogen Hale: Started on the wrong characteristic[\s\S]*Not used: points \d+–\d+ are judged against phase 1's limits\./);
+    expect(await sheet.getByTestId('report-phase-3').innerText()).toMatch(/Nutrunner 3 fitted[\s\S]*Corrected .+ by Imogen Hale: Typo in the tool number \(reason was “Nutrunner 8 fitted”\)[\s\S]*Withdrawn .+ by Imogen Hale: The tool was not changed after all/);
     // The demo's torque outlier (and the moving range falling back after it): answered, with cause and action, signed off.
     const outlier = sheet.getByTestId('report-signal-row').filter({ hasText: 'Nutrunner clutch slipped' });
     expect(await outlier.count()).toBeGreaterThanOrEqual(1);
@@ -82,6 +100,7 @@ describe.skipIf(!run)('printable report', () => {
     await expect.poll(points).toBe(all);
 
     const problems = await check(page, 'report-light');
+    await page.getByTestId('report-limits').screenshot({ path: join(SHOTS, 'report-limits-light.png') });
 
     // Printed: no top bar, no button; the sheet, the chart and the tables stay; the chart fits the sheet.
     await page.emulateMedia({ media: 'print' });
@@ -115,6 +134,7 @@ describe.skipIf(!run)('printable report', () => {
     await page.getByTestId('theme-toggle').click();
     await expect.poll(() => page.evaluate(() => document.documentElement.dataset.theme)).toBe('dark');
     problems.push(...(await check(page, 'report-dark')));
+    await page.getByTestId('report-limits').screenshot({ path: join(SHOTS, 'report-limits-dark.png') });
     expect(problems).toEqual([]);
     expect(errors).toEqual([]);
   });

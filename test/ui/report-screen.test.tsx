@@ -113,4 +113,45 @@ describe('ReportScreen', () => {
     expect(screen.queryByTestId('main-chart')).toBeNull();
     expect(screen.getByTestId('report-signal-summary').textContent).toBe('No run rule fired in this period.');
   });
+
+  it('limits by phase: a corrected phase says what it replaced, by whom, when and why; a withdrawn one is marked, with its note', () => {
+    const eng: Person = { id: 'p-eng', name: 'Elif', login: 'elif', role: 'engineer', active: true };
+    const changed = [
+      phases[0]!,
+      makePhase({ number: 2, characteristicId: ch.id, startsAt: iso(T0 + 10 * HOUR - 60_000), reason: 'New insert', withdrawn: { at: iso(T0 + 12 * HOUR), by: 'p-eng', note: 'Started by mistake' } }),
+      makePhase({
+        number: 3, characteristicId: ch.id, startsAt: iso(T0 + 15 * HOUR - 60_000), reason: 'New holder, refitted', given: { centre: 10, sigma: 0.1 },
+        corrections: [{ at: iso(T0 + 16 * HOUR), by: 'p-eng', note: 'Wrong reason typed', was: { startsAt: iso(T0 + 15 * HOUR - 60_000), reason: 'New holder', given: { centre: 10, sigma: 0.1 } } }],
+      }),
+    ];
+    const v = buildCharacteristicView(ch, changed, samples, [], [], now);
+    const base = readyState([ch], { [ch.id]: v }, { person: people[0]!, now });
+    render(<ReportScreen state={{ ...base, setup: { ...base.setup, people: [...people, eng], phases: changed } }} actions={fakeActions()} characteristicId={ch.id} />);
+    const rows = within(screen.getByTestId('report-limits')).getAllByRole('row').slice(1);
+    expect(rows.map((r) => r.getAttribute('data-testid'))).toEqual(['report-phase-1', 'report-phase-2', 'report-phase-3']);
+    const withdrawn = screen.getByTestId('report-phase-2');
+    expect(withdrawn.getAttribute('data-withdrawn')).toBe('true');
+    expect(withdrawn.textContent).toMatch(/^Phase 2 Withdrawn.*New insert/);
+    expect(within(withdrawn).getByTestId('report-phase-note').textContent).toMatch(/^Withdrawn .+ by Elif: Started by mistake$/);
+    // Points 11 to 15 (phase 2 began at point 11, phase 3 at point 16) fall back to phase 1.
+    expect(withdrawn.textContent).toContain("Not used: points 11–15 are judged against phase 1's limits.");
+    const corrected = screen.getByTestId('report-phase-3');
+    expect(within(corrected).getByTestId('report-phase-note').textContent).toMatch(/^Corrected .+ by Elif: Wrong reason typed \(reason was “New holder”\)$/);
+    expect(screen.getByTestId('report-phase-1').querySelector('[data-testid="report-phase-note"]')).toBeNull();
+    expect(screen.getByText(/A correction names what it replaced, who made it, when and why/)).toBeTruthy();
+  });
+
+  it('signals in imported history name the file and line and read as never asked for, not as open', () => {
+    const imp = samples.map((s, i) => (i >= 20 ? { ...s, imported: { file: 'paper log 2025.csv', line: i + 2 } } : s));
+    const v = buildCharacteristicView(ch, phases, imp, [], [], now);
+    const base = readyState([ch], { [ch.id]: v }, { person: people[0]!, now });
+    render(<ReportScreen state={{ ...base, setup: { ...base.setup, people, phases } }} actions={fakeActions()} characteristicId={ch.id} />);
+    const rows = within(screen.getByTestId('report-signals')).getAllByTestId('report-signal-row');
+    expect(rows.map((r) => r.getAttribute('data-state'))).toEqual(['historical', 'historical', 'historical']);
+    expect(rows[0]!.textContent).toMatch(/^Point 21.*In imported history, not answered.*Imported from paper log 2025\.csv, line 22\./);
+    expect(rows[0]!.textContent).toContain('No response recorded: it fired in history imported from a file, where no answer was asked for.');
+    expect(rows[0]!.textContent).toContain('Answered: not asked for (imported history)');
+    expect(rows[0]!.querySelector('.report-open')).toBeNull();
+    expect(screen.getByTestId('report-signal-summary').textContent).toBe('3 signals in this period: 0 open (no answer yet), 0 awaiting sign-off, 0 signed off, 3 in imported history.');
+  });
 });

@@ -1,12 +1,14 @@
 import { useMemo, useState } from 'preact/hooks';
 import type { AppActions, AppState, CharacteristicView } from '../../app/app-state';
 import { SIGMA_METHOD_TEXT } from '../../app/limits-history';
+import { importedFromText } from '../../app/imported-from';
+import { correctionLines, pointRange, withdrawalLine } from '../../app/phase-change';
 import {
-  REPORT_PERIODS, capabilityScope, limitsInRange, reportHeader, reportRange, signalCounts, signalsInRange,
+  REPORT_PERIODS, capabilityScope, phasesInRange, reportHeader, reportRange, signalCounts, signalsInRange,
   type ReportPeriod, type ReportRange,
 } from '../../app/report';
 import type { SignalGroup } from '../../app/signal-state';
-import { isVariableChart } from '../../schema';
+import { isVariableChart, type Phase } from '../../schema';
 import { CapabilityPanel } from '../chart/CapabilityPanel';
 import { ChartPanel } from '../chart/ChartPanel';
 import { formatDateTime, formatShortDateTime } from '../format-time';
@@ -126,6 +128,7 @@ function ReportSheet({ view, state, actions, period }: { view: CharacteristicVie
                         <span class={`chip ${STATE_CHIP[g.state]}`}>{STATE_TEXT[g.state]}</span>
                         {g.signals.map((s) => <span class="delta" key={s.rule}>{s.explanation} ({ruleName(s.rule)})</span>)}
                         {g.lastIndex > g.index ? <span class="delta">Went on firing up to point {g.lastIndex + 1}.</span> : null}
+                        {sample?.imported ? <span class="delta" data-testid="report-signal-imported">Imported from {importedFromText(sample.imported)}.</span> : null}
                       </th>
                       <td data-label="Response">
                         {g.response ? (
@@ -134,10 +137,12 @@ function ReportSheet({ view, state, actions, period }: { view: CharacteristicVie
                             <span class="report-line"><strong>Cause:</strong> {g.response.causeCategory}{g.response.cause ? `: ${g.response.cause}` : ''}</span>
                             <span class="report-line"><strong>Action:</strong> {g.response.action}</span>
                           </>
-                        ) : <strong class="report-open">No response recorded.</strong>}
+                        ) : g.state === 'historical'
+                          ? <span class="report-line">No response recorded: it fired in history imported from a file, where no answer was asked for.</span>
+                          : <strong class="report-open">No response recorded.</strong>}
                       </td>
                       <td data-label="Answered and signed off">
-                        <span class="report-line"><strong>Answered:</strong> {g.response ? `${who(g.response.respondedBy)}, ${formatShortDateTime(g.response.respondedAt)}` : 'not yet'}</span>
+                        <span class="report-line"><strong>Answered:</strong> {g.response ? `${who(g.response.respondedBy)}, ${formatShortDateTime(g.response.respondedAt)}` : g.state === 'historical' ? 'not asked for (imported history)' : 'not yet'}</span>
                         {g.response ? (
                           <span class="report-line"><strong>Signed off:</strong> {g.ack ? `${who(g.ack.by)}, ${formatShortDateTime(g.ack.at)}` : 'not yet'}</span>
                         ) : null}
@@ -162,16 +167,21 @@ function ReportSheet({ view, state, actions, period }: { view: CharacteristicVie
 
 function LimitsSection({ view, state, range }: { view: CharacteristicView; state: AppState; range: ReportRange }) {
   const ch = view.characteristic;
-  const rows = limitsInRange(view, state.setup.phases, range);
+  const entries = phasesInRange(view, state.setup.phases, range);
+  const nameOf = (id: string) => state.setup.people.find((p) => p.id === id)?.name ?? id;
+  const notes = (phase: Phase | undefined) => (phase ? [...correctionLines(phase, ch, nameOf, formatShortDateTime), withdrawalLine(phase, nameOf, formatShortDateTime)] : [])
+    .filter((l): l is string => l !== undefined)
+    .map((l) => <span key={l} class="delta report-phase-note" data-testid="report-phase-note">{l}</span>);
   const d = ch.decimals + 2;
   const f = (v: number | null) => (v === null ? '—' : v.toFixed(d));
+  const anyChanged = entries.some((e) => e.kind === 'withdrawn' || (e.phase?.corrections?.length ?? 0) > 0);
   return (
     <section class="report-section stack" aria-labelledby="report-limits">
       <h2 id="report-limits">Limits by phase</h2>
-      {rows.length === 0 ? <p class="hint">No phase has points in this period.</p> : (
+      {entries.length === 0 ? <p class="hint">No phase has points in this period.</p> : (
         <div class="table-scroll" tabIndex={0} role="region" aria-label="Limits by phase (scrolls sideways)">
           <table class="history-table report-table" data-testid="report-limits">
-            <caption class="sr-only">Limits of each phase of {ch.name} in the period</caption>
+            <caption class="sr-only">Limits of each phase of {ch.name} in the period, with corrections and withdrawn phases</caption>
             <thead>
               <tr>
                 <th scope="col">Phase</th><th scope="col">Reason and limits</th><th scope="col">Centre</th><th scope="col">UCL</th><th scope="col">LCL</th>
@@ -179,28 +189,51 @@ function LimitsSection({ view, state, range }: { view: CharacteristicView; state
               </tr>
             </thead>
             <tbody>
-              {rows.map((r) => (
-                <tr key={r.number} data-testid={`report-phase-${r.number}`}>
-                  <th scope="row">
-                    Phase {r.number}
-                    <span class="delta">from {r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</span>
-                  </th>
-                  <td data-label="Reason and limits">
-                    {r.reason}
-                    <span class="delta">{r.source === 'given' ? 'Given (earlier study or standard)' : `Baseline of ${r.baselineCount} subgroup${r.baselineCount === 1 ? '' : 's'}${r.provisional ? ' (provisional)' : ''}`}</span>
-                  </td>
-                  <td data-label="Centre">{f(r.centre)}</td>
-                  <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? <span class="delta">latest</span> : null}</td>
-                  <td data-label="LCL">{f(r.lcl)}{r.limitsVary ? <span class="delta">latest</span> : null}</td>
-                  <td data-label="Sigma">{f(r.sigma)}<span class="delta">{SIGMA_METHOD_TEXT[r.sigmaMethod]}</span></td>
-                  <td data-label="Points">{r.points}<span class="delta">{r.signalPoints} with signals</span></td>
-                </tr>
-              ))}
+              {entries.map((e) => {
+                if (e.kind === 'withdrawn') {
+                  return (
+                    <tr key={`w${e.number}`} class="report-withdrawn-row" data-testid={`report-phase-${e.number}`} data-withdrawn="true">
+                      <th scope="row">
+                        Phase {e.number} <span class="chip neutral">Withdrawn</span>
+                        <span class="delta">from {formatShortDateTime(e.phase.startsAt)}</span>
+                      </th>
+                      <td data-label="Reason and limits">{e.phase.reason}{notes(e.phase)}</td>
+                      <td data-label="Limits" colSpan={5}>
+                        {e.to > e.from
+                          ? `Not used: ${pointRange(e.from, e.to)} ${e.to - e.from === 1 ? 'is' : 'are'} judged against ${e.judgedBy !== undefined ? `phase ${e.judgedBy}'s limits` : 'the limits of the phase before'}.`
+                          : 'Not used: it had no points.'}
+                      </td>
+                    </tr>
+                  );
+                }
+                const r = e.row;
+                return (
+                  <tr key={r.number} data-testid={`report-phase-${r.number}`}>
+                    <th scope="row">
+                      Phase {r.number}
+                      <span class="delta">from {r.firstPointAt ? formatShortDateTime(r.firstPointAt) : r.startsAt ? `${formatShortDateTime(r.startsAt)} (no points yet)` : '—'}</span>
+                    </th>
+                    <td data-label="Reason and limits">
+                      {r.reason}
+                      <span class="delta">{r.source === 'given' ? 'Given (earlier study or standard)' : `Baseline of ${r.baselineCount} subgroup${r.baselineCount === 1 ? '' : 's'}${r.provisional ? ' (provisional)' : ''}`}</span>
+                      {notes(e.phase)}
+                    </td>
+                    <td data-label="Centre">{f(r.centre)}</td>
+                    <td data-label="UCL">{f(r.ucl)}{r.limitsVary ? <span class="delta">latest</span> : null}</td>
+                    <td data-label="LCL">{f(r.lcl)}{r.limitsVary ? <span class="delta">latest</span> : null}</td>
+                    <td data-label="Sigma">{f(r.sigma)}<span class="delta">{SIGMA_METHOD_TEXT[r.sigmaMethod]}</span></td>
+                    <td data-label="Points">{r.points}<span class="delta">{r.signalPoints} with signals</span></td>
+                  </tr>
+                );
+              })}
             </tbody>
           </table>
         </div>
       )}
-      <p class="hint">Each row shows the phase whole, also where it reaches outside the period. Limits marked “latest” vary with the sample size (or settle over time on an EWMA chart).</p>
+      <p class="hint">
+        Each row shows the phase whole, also where it reaches outside the period. Limits marked “latest” vary with the sample size (or settle over time on an EWMA chart).
+        {anyChanged ? ' A correction names what it replaced, who made it, when and why; a withdrawn phase was started by mistake and is not used on the chart.' : ''}
+      </p>
     </section>
   );
 }
