@@ -8,7 +8,7 @@ import { EnrolmentCodeCard } from './EnrolmentCodeCard';
 
 const when = (iso: string | null | undefined) => (iso ? formatShortDateTime(iso) : 'Not yet');
 
-/** The site's tablets: when each was connected and last heard of; withdraw one; a code to connect a new one. */
+/** The site's tablets: when each was connected and last heard of; withdraw one or give a withdrawn one back; a code to connect a new one. */
 export function TabletsPanel({ state, view, actions }: { state: AppState; view: AdminView; actions: AppActions }) {
   const [confirming, setConfirming] = useState<string | undefined>();
   const devices = view.devices ?? [];
@@ -45,6 +45,12 @@ function TabletRow({ device: d, isThis, actions, confirming, onConfirm }: { devi
     setBusy(false);
     onConfirm(false);
   };
+  const reinstate = async () => {
+    setBusy(true);
+    await actions.adminReinstateTablet(d.id);
+    setBusy(false);
+    onConfirm(false);
+  };
   return (
     <tr data-testid={`tablet-${d.name}`}>
       <th scope="row">
@@ -58,7 +64,22 @@ function TabletRow({ device: d, isThis, actions, confirming, onConfirm }: { devi
       <td>{when(d.lastSignInAt)}</td>
       <td>{d.revokedAt ? <span class="chip neutral">Withdrawn {formatShortDateTime(d.revokedAt)}</span> : <span class="chip steady">In use</span>}</td>
       <td>
-        {d.revokedAt ? null : confirming ? (
+        {d.revokedAt ? (
+          confirming ? (
+            <div class="stack" style="gap:8px" data-testid="reinstate-confirm">
+              <span class="hint">
+                “{d.name}” syncs again with the connection it already has (no new code needed): records it has not sent go to
+                the server at its next sync, and it receives updates again. Reinstate it only if it is back in trusted hands.
+              </span>
+              <div class="row" style="gap:8px">
+                <button type="button" class="btn small primary" disabled={busy} onClick={() => void reinstate()}>Reinstate “{d.name}”</button>
+                <button type="button" class="btn small" onClick={() => onConfirm(false)}>Keep withdrawn</button>
+              </div>
+            </div>
+          ) : (
+            <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Reinstate tablet ${d.name}`}>Reinstate</button>
+          )
+        ) : confirming ? (
           <div class="stack" style="gap:8px">
             <span class="hint">
               {isThis ? 'This is the tablet you are using: it will stop syncing at once. ' : ''}
