@@ -114,18 +114,19 @@ describe('AdminScreen: tablets', () => {
     expect(screen.queryByTestId('reinstate-confirm')).toBeNull();
     fireEvent.click(screen.getByRole('button', { name: 'Reinstate tablet Old tablet' }));
     expect(actions.adminReinstateTablet).not.toHaveBeenCalled();
-    const confirm = within(row).getByTestId('reinstate-confirm');
+    const confirm = screen.getByTestId('reinstate-confirm');
     expect(confirm.textContent).toMatch(/“Old tablet” syncs again with the connection it already has \(no new code needed\)/);
     expect(confirm.textContent).toMatch(/records it has not sent go to the server at its next sync/);
     // Changing one's mind leaves it withdrawn.
-    fireEvent.click(within(row).getByRole('button', { name: 'Keep withdrawn' }));
-    expect(within(row).queryByTestId('reinstate-confirm')).toBeNull();
+    fireEvent.click(within(confirm).getByRole('button', { name: 'Keep withdrawn' }));
+    expect(screen.queryByTestId('reinstate-confirm')).toBeNull();
     expect(actions.adminReinstateTablet).not.toHaveBeenCalled();
     fireEvent.click(screen.getByRole('button', { name: 'Reinstate tablet Old tablet' }));
-    fireEvent.click(within(row).getByRole('button', { name: 'Reinstate “Old tablet”' }));
+    expect(within(row).queryByRole('button', { name: 'Reinstate tablet Old tablet' })).toBeNull(); // the confirmation replaces it
+    fireEvent.click(within(screen.getByTestId('reinstate-confirm')).getByRole('button', { name: 'Reinstate “Old tablet”' }));
     expect(actions.adminReinstateTablet).toHaveBeenCalledWith('tab-2');
     expect(actions.adminRevokeTablet).not.toHaveBeenCalled();
-    await waitFor(() => expect(within(row).queryByTestId('reinstate-confirm')).toBeNull()); // closed once done
+    await waitFor(() => expect(screen.queryByTestId('reinstate-confirm')).toBeNull()); // closed once done
   });
 
   it('a reinstated tablet is listed in use again, with its Withdraw button back', () => {

@@ -52,20 +52,48 @@ function TabletRow({ device: d, isThis, actions, confirming, onConfirm }: { devi
     onConfirm(false);
   };
   return (
-    <tr data-testid={`tablet-${d.name}`}>
-      <th scope="row">
-        {d.name}{isThis ? <span class="hint"> (this tablet)</span> : null}
-        <span class="admin-sub">Connected {formatShortDateTime(d.enrolledAt)}</span>
-      </th>
-      <td>
-        {when(d.lastUploadAt)}
-        {coverage ? <span class={coverage.missing ? 'admin-sub coverage-missing' : 'admin-sub'} data-testid="record-coverage">{coverage.text}</span> : null}
-      </td>
-      <td>{when(d.lastSignInAt)}</td>
-      <td>{d.revokedAt ? <span class="chip neutral">Withdrawn {formatShortDateTime(d.revokedAt)}</span> : <span class="chip steady">In use</span>}</td>
-      <td>
-        {d.revokedAt ? (
-          confirming ? (
+    <>
+      <tr data-testid={`tablet-${d.name}`}>
+        <th scope="row">
+          {d.name}{isThis ? <span class="hint"> (this tablet)</span> : null}
+          <span class="admin-sub">Connected {formatShortDateTime(d.enrolledAt)}</span>
+        </th>
+        <td>
+          {when(d.lastUploadAt)}
+          {coverage ? <span class={coverage.missing ? 'admin-sub coverage-missing' : 'admin-sub'} data-testid="record-coverage">{coverage.text}</span> : null}
+        </td>
+        <td>{when(d.lastSignInAt)}</td>
+        <td>
+          {d.revokedAt ? (
+            // The time under the chip, which does not wrap: the table then fits a portrait screen.
+            <><span class="chip neutral">Withdrawn</span><span class="admin-sub">{formatShortDateTime(d.revokedAt)}</span></>
+          ) : <span class="chip steady">In use</span>}
+        </td>
+        <td>
+          {d.revokedAt ? (
+            confirming ? null : (
+              <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Reinstate tablet ${d.name}`}>Reinstate</button>
+            )
+          ) : confirming ? (
+            <div class="stack" style="gap:8px">
+              <span class="hint">
+                {isThis ? 'This is the tablet you are using: it will stop syncing at once. ' : ''}
+                It can no longer send or receive; records it has not sent stay on it.
+              </span>
+              <div class="row" style="gap:8px">
+                <button type="button" class="btn small warn" disabled={busy} onClick={() => void withdraw()}>Withdraw “{d.name}”</button>
+                <button type="button" class="btn small" onClick={() => onConfirm(false)}>Keep</button>
+              </div>
+            </div>
+          ) : (
+            <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Withdraw tablet ${d.name}`}>Withdraw</button>
+          )}
+        </td>
+      </tr>
+      {d.revokedAt && confirming ? (
+        // Full width under the tablet's row, so that the explanation reads as a paragraph on a narrow screen.
+        <tr class="confirm-row">
+          <td colSpan={5}>
             <div class="stack" style="gap:8px" data-testid="reinstate-confirm">
               <span class="hint">
                 “{d.name}” syncs again with the connection it already has (no new code needed): records it has not sent go to
@@ -76,24 +104,9 @@ function TabletRow({ device: d, isThis, actions, confirming, onConfirm }: { devi
                 <button type="button" class="btn small" onClick={() => onConfirm(false)}>Keep withdrawn</button>
               </div>
             </div>
-          ) : (
-            <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Reinstate tablet ${d.name}`}>Reinstate</button>
-          )
-        ) : confirming ? (
-          <div class="stack" style="gap:8px">
-            <span class="hint">
-              {isThis ? 'This is the tablet you are using: it will stop syncing at once. ' : ''}
-              It can no longer send or receive; records it has not sent stay on it.
-            </span>
-            <div class="row" style="gap:8px">
-              <button type="button" class="btn small warn" disabled={busy} onClick={() => void withdraw()}>Withdraw “{d.name}”</button>
-              <button type="button" class="btn small" onClick={() => onConfirm(false)}>Keep</button>
-            </div>
-          </div>
-        ) : (
-          <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Withdraw tablet ${d.name}`}>Withdraw</button>
-        )}
-      </td>
-    </tr>
+          </td>
+        </tr>
+      ) : null}
+    </>
   );
 }
