@@ -10,10 +10,10 @@ afterEach(closeAll);
 /** A server that has withdrawn this tablet: every call is answered 401 device-revoked, as auth.ts does. */
 const withdrawn: SyncApi = {
   pushRecords: async () => {
-    throw new ApiError('unauthorized', 'Not allowed: This tablet has been withdrawn by an administrator; enrol it again to use it.', { status: 401, serverCode: 'device-revoked' });
+    throw new ApiError('unauthorized', 'Not allowed: This tablet has been withdrawn by an administrator; a site admin can reinstate it (its unsent records then go at its next sync).', { status: 401, serverCode: 'device-revoked' });
   },
   pullEntries: async () => {
-    throw new ApiError('unauthorized', 'Not allowed: This tablet has been withdrawn by an administrator; enrol it again to use it.', { status: 401, serverCode: 'device-revoked' });
+    throw new ApiError('unauthorized', 'Not allowed: This tablet has been withdrawn by an administrator; a site admin can reinstate it (its unsent records then go at its next sync).', { status: 401, serverCode: 'device-revoked' });
   },
 };
 
