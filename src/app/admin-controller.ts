@@ -29,6 +29,8 @@ export interface AdminActions {
   adminChangePerson(personId: string, change: PersonChangeRequest): Promise<boolean>;
   adminResetPin(personId: string, pin: string, pinAgain: string): Promise<FormOutcome>;
   adminRevokeTablet(deviceId: string): Promise<boolean>;
+  /** Gives a withdrawn tablet back: its token works again and its unsent records go at its next sync. */
+  adminReinstateTablet(deviceId: string): Promise<boolean>;
   /** A connection code for a new tablet, valid for `ttlMinutes` (the server's 15 minutes when not given). */
   adminIssueCode(ttlMinutes?: number): Promise<boolean>;
 }
@@ -165,6 +167,18 @@ export function createAdminController(deps: AdminControllerDeps): AdminActions {
       });
       if (!done) return false;
       await reload(`“${name}” is withdrawn: it can no longer send or receive. Records it has not sent stay on it.`);
+      return true;
+    },
+
+    async adminReinstateTablet(deviceId) {
+      patch({ problem: undefined, notice: undefined });
+      const name = view().devices?.find((d) => d.id === deviceId)?.name ?? deviceId;
+      const done = await withSession(async (api, s) => {
+        await api.reinstateDevice(s, deviceId);
+        return true;
+      });
+      if (!done) return false;
+      await reload(`“${name}” is in use again: records it has not sent go to the server at its next sync.`);
       return true;
     },
 

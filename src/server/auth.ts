@@ -37,7 +37,7 @@ export async function authenticateDevice(ctx: ServerContext, request: FastifyReq
   }
   const device = await ctx.store.findDeviceByTokenHash(hashSecret(match[1]));
   if (!device) throw new HttpError(401, 'unauthenticated', 'The device token is not known to this server; enrol the tablet again.');
-  if (device.revokedAt !== null) throw new HttpError(401, 'device-revoked', 'This tablet has been withdrawn by an administrator; enrol it again to use it.');
+  if (device.revokedAt !== null) throw new HttpError(401, 'device-revoked', 'This tablet has been withdrawn by an administrator; a site admin can reinstate it (its unsent records then go at its next sync).');
   return device;
 }
 
@@ -60,7 +60,7 @@ export async function authenticateSession(ctx: ServerContext, request: FastifyRe
     throw new HttpError(401, 'session-expired', 'The session has expired; sign in again.');
   }
   const device = await ctx.store.getDevice(session.deviceId);
-  if (!device || device.revokedAt !== null) throw new HttpError(401, 'device-revoked', 'The tablet of this session has been withdrawn; enrol it again.');
+  if (!device || device.revokedAt !== null) throw new HttpError(401, 'device-revoked', 'The tablet of this session has been withdrawn; a site admin can reinstate it.');
   const person = await ctx.store.getSetup('person', session.personId);
   if (!person?.body.active) throw new HttpError(401, 'unauthenticated', 'The person of this session is no longer active; sign in again.');
   return { session, person: person.body, siteId: person.siteId };

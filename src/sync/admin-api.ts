@@ -23,6 +23,8 @@ export interface AdminApi {
   setPin(session: string, request: SetPinRequest): Promise<void>;
   listDevices(session: string): Promise<AdminDevice[]>;
   revokeDevice(session: string, deviceId: string): Promise<void>;
+  /** Gives a withdrawn tablet back: its same token works again (nothing changes for a tablet in use). */
+  reinstateDevice(session: string, deviceId: string): Promise<void>;
   /** A one-time code; `ttlMinutes` (1 to 1440) defaults to the server's 15 minutes. */
   issueEnrolmentCode(session: string, ttlMinutes?: number): Promise<EnrolmentCodeIssued>;
 }
@@ -60,6 +62,9 @@ export function createAdminApi(config: ApiConfig): AdminApi {
     },
     async revokeDevice(session, deviceId) {
       await call(config, { method: 'POST', path: `/admin/devices/${encodeURIComponent(deviceId)}/revoke`, session, body: {} }, NoContent);
+    },
+    async reinstateDevice(session, deviceId) {
+      await call(config, { method: 'POST', path: `/admin/devices/${encodeURIComponent(deviceId)}/reinstate`, session, body: {} }, NoContent);
     },
     async issueEnrolmentCode(session, ttlMinutes) {
       const body = checked(EnrolmentCodeRequest, ttlMinutes === undefined ? {} : { ttlMinutes }, 'The code request');

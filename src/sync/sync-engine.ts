@@ -203,6 +203,9 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
     /** Ids sent in this run: each row goes out once per run (again only after an epoch change). */
     let sentThisRun = new Set<string>();
     let epochChanges = 0;
+    // The rows of a tablet last told it was withdrawn wait out a backoff that came from the withdrawal, not from a
+    // busy server: once an admin reinstates it, they go at its next run, whatever started it.
+    const ignoreBackoff = opts.ignoreBackoff === true || status.lastErrorCode === 'device-revoked';
 
     const noteEpoch = async (serverEpoch: string): Promise<boolean> => {
       const change = await adoptServerEpoch(db, serverEpoch, now());
@@ -279,7 +282,7 @@ export function createSyncEngine(options: SyncEngineOptions): SyncEngine {
 
     const pushAll = async (token: string): Promise<void> => {
       for (;;) {
-        const dueBy = opts.ignoreBackoff ? Number.POSITIVE_INFINITY : now();
+        const dueBy = ignoreBackoff ? Number.POSITIVE_INFINITY : now();
         const items = await listDueOutbox(db, dueBy, batchSize, sentThisRun);
         if (items.length === 0) return;
         await sendBatch(token, items);

@@ -219,4 +219,57 @@ describe('tablets', () => {
     expect(await restarted.app.actions.signIn('odile', '1234')).toBe(true);
     expect((await countOutbox(restarted.db)).pending).toBe(1);
   });
+
+  it('a withdrawn tablet the admin reinstates syncs again at its next sync, without a restart: its kept record reaches the server once and the notice goes', async () => {
+    const line = await signedIn('odile', '1234');
+    await line.settle();
+    line.net.online = false;
+    expect(await line.app.actions.record('ch-len', { values: [10.03] })).toBe(true);
+    await line.settle();
+    line.net.online = true;
+    line.app.actions.open({ name: 'characteristic', characteristicId: 'ch-len' });
+    await line.settle();
+    const kept = line.app.getState().views['ch-len']!.series.samples.find((s) => s.values?.[0] === 10.03)!;
+
+    const t = await adminTablet();
+    const lineId = line.app.getState().device!.deviceId;
+    expect(await t.app.actions.adminRevokeTablet(lineId)).toBe(true);
+    for (let run = 0; run < 3; run++) {
+      line.clock.t += 1_000;
+      await line.app.actions.syncNow();
+      await line.settle();
+    }
+    expect(line.app.getState().sync).toMatchObject({ withdrawn: true, pending: 1 });
+
+    expect(await t.app.actions.adminReinstateTablet(lineId)).toBe(true);
+    const view = t.app.getState().admin!;
+    expect(view.devices?.find((d) => d.id === lineId)?.revokedAt).toBeNull();
+    expect(view.notice).toMatch(/is in use again: records it has not sent go to the server at its next sync/);
+    expect(view.problem).toBeUndefined();
+
+    await line.app.actions.syncNow();
+    await line.settle();
+    expect(line.app.getState().sync.withdrawn).toBeUndefined();
+    expect(line.app.getState().sync).toMatchObject({ state: 'idle', pending: 0 });
+    expect(await countOutbox(line.db)).toMatchObject({ pending: 0, rejected: 0, conflict: 0 });
+    const onServer = await server().sql(`SELECT device_id FROM log WHERE entity_id = ?`, kept.id);
+    expect(onServer).toEqual([{ device_id: lineId }]);
+    // A further sync sends nothing again.
+    await line.app.actions.syncNow();
+    await line.settle();
+    expect(await server().sql(`SELECT device_id FROM log WHERE entity_id = ?`, kept.id)).toHaveLength(1);
+    // The admin's own tablet receives it like any other record.
+    await t.app.actions.syncNow();
+    await t.settle();
+    t.app.actions.open({ name: 'characteristic', characteristicId: 'ch-len' });
+    await t.settle();
+    expect(t.app.getState().views['ch-len']?.series.samples.filter((s) => s.id === kept.id)).toHaveLength(1);
+  });
+
+  it('reinstating a tablet in use changes nothing: it stays in use', async () => {
+    const t = await adminTablet();
+    const ownId = t.app.getState().device!.deviceId;
+    expect(await t.app.actions.adminReinstateTablet(ownId)).toBe(true);
+    expect(t.app.getState().admin?.devices?.find((d) => d.id === ownId)?.revokedAt).toBeNull();
+  });
 });

@@ -2,7 +2,7 @@
  * The site admin at work, in headless Chromium on the demo site: Marguerite (admin) adds an operator
  * who then signs in on a line tablet; she withdraws their access and their next sign-in is refused;
  * she makes a connection code and a new tablet joins with it; she withdraws that tablet, which then
- * says so and keeps its unsent reading. The admin screens pass axe (WCAG 2.1 AA) in both themes at
+ * says so and keeps its unsent reading; she reinstates it and its next sync sends the reading. The admin screens pass axe (WCAG 2.1 AA) in both themes at
  * 1280×800 and 800×1280.
  */
 import type { Page } from 'playwright-core';
@@ -133,6 +133,23 @@ describe.skipIf(!run)('the site admin: people and tablets', () => {
       await setTheme(fresh!, theme);
       problems.push(...(await check(fresh!, `withdrawn-tablet-${theme}`)));
     }
+
+    // It was withdrawn by mistake: Marguerite reinstates it (two steps), and its next sync sends the reading.
+    await admin.getByRole('button', { name: 'Reinstate tablet Paint shop tablet' }).click();
+    await admin.getByTestId('reinstate-confirm').getByText(/records it has not sent go to\s+the server at its next sync/).waitFor();
+    for (const theme of ['light', 'dark'] as const) {
+      await setTheme(admin, theme);
+      problems.push(...(await check(admin, `admin-reinstate-${theme}`)));
+    }
+    await admin.getByRole('button', { name: 'Reinstate “Paint shop tablet”' }).click();
+    await admin.getByTestId('tablet-Paint shop tablet').getByText('In use').waitFor();
+    await fresh!.getByTestId('sync-pill').click();
+    await fresh!.getByTestId('sync-now').click();
+    await fresh!.getByTestId('sync-sheet').getByRole('button', { name: 'Close' }).click();
+    await notice.waitFor({ state: 'detached', timeout: 15_000 });
+    await expect.poll(() => fresh!.getByTestId('sync-pill').innerText()).not.toMatch(/waiting to send|withdrawn/);
+    await admin.getByRole('button', { name: 'Refresh' }).click();
+    await expect.poll(() => admin.getByTestId('tablet-Paint shop tablet').innerText()).toMatch(/Records 1–\d+ received/);
 
     expect(problems).toEqual([]);
     expect(errors).toEqual([]);

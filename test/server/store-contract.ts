@@ -73,6 +73,19 @@ export function describeServerStoreContract(label: string, open: () => Promise<{
       expect(await store.listDevices('s2')).toEqual([]);
     });
 
+    it('reinstates a withdrawn device: the same token finds it in use again, and a second reinstate changes nothing', async () => {
+      await store.createDevice({ id: 'd1', siteId: 's1', name: 'A', tokenHash: 't1', enrolledAt: T });
+      await store.revokeDevice('d1', '2026-12-01T09:00:00.000Z');
+      expect(await store.reinstateDevice('d1')).toBe(true);
+      expect(await store.findDeviceByTokenHash('t1')).toMatchObject({ id: 'd1', siteId: 's1', revokedAt: null });
+      expect(await store.reinstateDevice('d1')).toBe(true);
+      expect((await store.getDevice('d1'))?.revokedAt).toBeNull();
+      expect(await store.reinstateDevice('d-none')).toBe(false);
+      // Withdrawn again later: a fresh withdrawal time, not the first one.
+      await store.revokeDevice('d1', '2026-12-01T11:00:00.000Z');
+      expect((await store.getDevice('d1'))?.revokedAt).toBe('2026-12-01T11:00:00.000Z');
+    });
+
     it('stores sessions by token hash', async () => {
       const session = { tokenHash: 'st', personId: 'p1', deviceId: 'd1', createdAt: T, expiresAt: '2026-12-01T20:00:00.000Z' };
       await store.createSession(session);

@@ -107,6 +107,36 @@ describe('AdminScreen: tablets', () => {
     expect(actions.adminRevokeTablet).toHaveBeenCalledWith('tab-1');
   });
 
+  it('a withdrawn tablet can be reinstated, only after a confirmation that says what it means', async () => {
+    const actions = admin({ loading: false, people, devices }, 'tablets');
+    const row = screen.getByTestId('tablet-Old tablet');
+    expect(screen.queryByRole('button', { name: 'Reinstate tablet Press 4 tablet' })).toBeNull(); // a tablet in use has none
+    expect(screen.queryByTestId('reinstate-confirm')).toBeNull();
+    fireEvent.click(screen.getByRole('button', { name: 'Reinstate tablet Old tablet' }));
+    expect(actions.adminReinstateTablet).not.toHaveBeenCalled();
+    const confirm = screen.getByTestId('reinstate-confirm');
+    expect(confirm.textContent).toMatch(/“Old tablet” syncs again with the connection it already has \(no new code needed\)/);
+    expect(confirm.textContent).toMatch(/records it has not sent go to the server at its next sync/);
+    // Changing one's mind leaves it withdrawn.
+    fireEvent.click(within(confirm).getByRole('button', { name: 'Keep withdrawn' }));
+    expect(screen.queryByTestId('reinstate-confirm')).toBeNull();
+    expect(actions.adminReinstateTablet).not.toHaveBeenCalled();
+    fireEvent.click(screen.getByRole('button', { name: 'Reinstate tablet Old tablet' }));
+    expect(within(row).queryByRole('button', { name: 'Reinstate tablet Old tablet' })).toBeNull(); // the confirmation replaces it
+    fireEvent.click(within(screen.getByTestId('reinstate-confirm')).getByRole('button', { name: 'Reinstate “Old tablet”' }));
+    expect(actions.adminReinstateTablet).toHaveBeenCalledWith('tab-2');
+    expect(actions.adminRevokeTablet).not.toHaveBeenCalled();
+    await waitFor(() => expect(screen.queryByTestId('reinstate-confirm')).toBeNull()); // closed once done
+  });
+
+  it('a reinstated tablet is listed in use again, with its Withdraw button back', () => {
+    admin({ loading: false, people, devices: [devices[0]!, { ...devices[1]!, revokedAt: null }], notice: '“Old tablet” is in use again: records it has not sent go to the server at its next sync.' }, 'tablets');
+    const row = screen.getByTestId('tablet-Old tablet');
+    expect(within(row).getByText('In use')).toBeTruthy();
+    expect(screen.getByRole('button', { name: 'Withdraw tablet Old tablet' })).toBeTruthy();
+    expect(screen.queryByRole('button', { name: 'Reinstate tablet Old tablet' })).toBeNull();
+  });
+
   it('says which of a tablet\'s record numbers never reached the server, marked as a problem', () => {
     const numbered: AdminDevice[] = [
       { ...devices[0]!, records: { received: 118, highest: 120, missing: 2, gaps: [{ from: 57, to: 58 }] } },
@@ -151,6 +181,7 @@ describe('the way in and the withdrawn tablet', () => {
   it('a withdrawn tablet says what that means and how many records stay on it', () => {
     render(<WithdrawnNotice state={readyState([], {}, { sync: { state: 'error', pending: 2, rejected: 0, withdrawn: true } })} />);
     expect(screen.getByRole('alert').textContent).toMatch(/^This tablet has been withdrawn from the site by an administrator\. .*2 records saved here have not reached the server: they stay on this tablet and on its charts\./);
+    expect(screen.getByRole('alert').textContent).toMatch(/If it was withdrawn by mistake, ask the site admin to reinstate it: they are then sent at its next sync\. Do not reset the tablet or connect it again before that/);
     expect(describeSync({ state: 'error', pending: 2, rejected: 0, withdrawn: true })).toEqual({ text: '2 waiting to send · tablet withdrawn', tone: 'failing' });
     cleanup();
     render(<WithdrawnNotice state={readyState([], {}, { sync: { state: 'idle', pending: 0, rejected: 0 } })} />);

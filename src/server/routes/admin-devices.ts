@@ -10,6 +10,8 @@ import type { SeqCoverage } from '../store/server-store';
  *   sent records and last had someone sign in (what the server knows of them; it does not log pulls), and
  *   which of its record numbers arrived: how many, the highest, and the numbers below it never received.
  * POST /api/v1/admin/devices/:id/revoke (admin session) → 204: the tablet's token stops working.
+ * POST /api/v1/admin/devices/:id/reinstate (admin session) → 204: a withdrawn tablet's same token works again, so
+ *   the records it kept send at its next sync; a tablet in use stays as it is (idempotent).
  */
 export function registerAdminDevicesRoutes(app: FastifyInstance, ctx: ServerContext): void {
   app.get('/api/v1/admin/devices', async (request): Promise<DeviceListResponse> => {
@@ -36,6 +38,18 @@ export function registerAdminDevicesRoutes(app: FastifyInstance, ctx: ServerCont
     if (!device || device.siteId !== siteId) throw new HttpError(404, 'not-found', `There is no tablet "${request.params.id}" at this site.`);
     await ctx.store.revokeDevice(device.id, ctx.now().toISOString());
     request.log.info({ deviceId: device.id }, 'device revoked');
+    return reply.code(204).send();
+  });
+
+  app.post<{ Params: { id: string } }>('/api/v1/admin/devices/:id/reinstate', async (request, reply) => {
+    const { person, siteId } = await authenticateSession(ctx, request);
+    requireRole(person, 'admin', 'reinstate tablets');
+    const device = await ctx.store.getDevice(request.params.id);
+    if (!device || device.siteId !== siteId) throw new HttpError(404, 'not-found', `There is no tablet "${request.params.id}" at this site.`);
+    if (device.revokedAt !== null) {
+      await ctx.store.reinstateDevice(device.id);
+      request.log.info({ by: person.id, deviceId: device.id, withdrawnAt: device.revokedAt }, 'device reinstated');
+    }
     return reply.code(204).send();
   });
 }

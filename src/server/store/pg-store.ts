@@ -292,6 +292,11 @@ export class PgStore implements ServerStore {
     return (result.rowCount ?? 0) > 0;
   }
 
+  async reinstateDevice(id: string): Promise<boolean> {
+    const result = await this.pool.query(`UPDATE devices SET revoked_at = NULL WHERE id = $1`, [id]);
+    return (result.rowCount ?? 0) > 0;
+  }
+
   async createSession(s: SessionRow): Promise<void> {
     await this.pool.query(
       `INSERT INTO sessions (token_hash, person_id, device_id, created_at, expires_at) VALUES ($1, $2, $3, $4, $5)`,

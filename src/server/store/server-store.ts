@@ -40,6 +40,8 @@ export interface ServerStore {
   listSeqCoverage(siteId: string): Promise<SeqCoverage[]>;
   /** Withdraws a device: its token stops working at once. Returns false if there is no such device. */
   revokeDevice(id: string, at: string): Promise<boolean>;
+  /** Gives a withdrawn device back: its same token works again (a device in use stays as it is). Returns false if there is no such device. */
+  reinstateDevice(id: string): Promise<boolean>;
   /** Registers a device directly (the demo seeder's own device); fails if the id exists. */
   createDevice(device: NewDevice & { siteId: string }): Promise<void>;
 

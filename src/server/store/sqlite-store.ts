@@ -215,6 +215,11 @@ export class SqliteStore implements ServerStore {
     return result.changes > 0;
   }
 
+  async reinstateDevice(id: string): Promise<boolean> {
+    const result = this.db.prepare(`UPDATE devices SET revoked_at = NULL WHERE id = ?`).run(id);
+    return result.changes > 0;
+  }
+
   async createSession(s: SessionRow): Promise<void> {
     this.db
       .prepare(`INSERT INTO sessions (token_hash, person_id, device_id, created_at, expires_at) VALUES (?, ?, ?, ?, ?)`)

@@ -8,7 +8,7 @@ import { EnrolmentCodeCard } from './EnrolmentCodeCard';
 
 const when = (iso: string | null | undefined) => (iso ? formatShortDateTime(iso) : 'Not yet');
 
-/** The site's tablets: when each was connected and last heard of; withdraw one; a code to connect a new one. */
+/** The site's tablets: when each was connected and last heard of; withdraw one or give a withdrawn one back; a code to connect a new one. */
 export function TabletsPanel({ state, view, actions }: { state: AppState; view: AdminView; actions: AppActions }) {
   const [confirming, setConfirming] = useState<string | undefined>();
   const devices = view.devices ?? [];
@@ -45,34 +45,68 @@ function TabletRow({ device: d, isThis, actions, confirming, onConfirm }: { devi
     setBusy(false);
     onConfirm(false);
   };
+  const reinstate = async () => {
+    setBusy(true);
+    await actions.adminReinstateTablet(d.id);
+    setBusy(false);
+    onConfirm(false);
+  };
   return (
-    <tr data-testid={`tablet-${d.name}`}>
-      <th scope="row">
-        {d.name}{isThis ? <span class="hint"> (this tablet)</span> : null}
-        <span class="admin-sub">Connected {formatShortDateTime(d.enrolledAt)}</span>
-      </th>
-      <td>
-        {when(d.lastUploadAt)}
-        {coverage ? <span class={coverage.missing ? 'admin-sub coverage-missing' : 'admin-sub'} data-testid="record-coverage">{coverage.text}</span> : null}
-      </td>
-      <td>{when(d.lastSignInAt)}</td>
-      <td>{d.revokedAt ? <span class="chip neutral">Withdrawn {formatShortDateTime(d.revokedAt)}</span> : <span class="chip steady">In use</span>}</td>
-      <td>
-        {d.revokedAt ? null : confirming ? (
-          <div class="stack" style="gap:8px">
-            <span class="hint">
-              {isThis ? 'This is the tablet you are using: it will stop syncing at once. ' : ''}
-              It can no longer send or receive; records it has not sent stay on it.
-            </span>
-            <div class="row" style="gap:8px">
-              <button type="button" class="btn small warn" disabled={busy} onClick={() => void withdraw()}>Withdraw “{d.name}”</button>
-              <button type="button" class="btn small" onClick={() => onConfirm(false)}>Keep</button>
+    <>
+      <tr data-testid={`tablet-${d.name}`}>
+        <th scope="row">
+          {d.name}{isThis ? <span class="hint"> (this tablet)</span> : null}
+          <span class="admin-sub">Connected {formatShortDateTime(d.enrolledAt)}</span>
+        </th>
+        <td>
+          {when(d.lastUploadAt)}
+          {coverage ? <span class={coverage.missing ? 'admin-sub coverage-missing' : 'admin-sub'} data-testid="record-coverage">{coverage.text}</span> : null}
+        </td>
+        <td>{when(d.lastSignInAt)}</td>
+        <td>
+          {d.revokedAt ? (
+            // The time under the chip, which does not wrap: the table then fits a portrait screen.
+            <><span class="chip neutral">Withdrawn</span><span class="admin-sub">{formatShortDateTime(d.revokedAt)}</span></>
+          ) : <span class="chip steady">In use</span>}
+        </td>
+        <td>
+          {d.revokedAt ? (
+            confirming ? null : (
+              <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Reinstate tablet ${d.name}`}>Reinstate</button>
+            )
+          ) : confirming ? (
+            <div class="stack" style="gap:8px">
+              <span class="hint">
+                {isThis ? 'This is the tablet you are using: it will stop syncing at once. ' : ''}
+                It can no longer send or receive; records it has not sent stay on it.
+              </span>
+              <div class="row" style="gap:8px">
+                <button type="button" class="btn small warn" disabled={busy} onClick={() => void withdraw()}>Withdraw “{d.name}”</button>
+                <button type="button" class="btn small" onClick={() => onConfirm(false)}>Keep</button>
+              </div>
             </div>
-          </div>
-        ) : (
-          <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Withdraw tablet ${d.name}`}>Withdraw</button>
-        )}
-      </td>
-    </tr>
+          ) : (
+            <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Withdraw tablet ${d.name}`}>Withdraw</button>
+          )}
+        </td>
+      </tr>
+      {d.revokedAt && confirming ? (
+        // Full width under the tablet's row, so that the explanation reads as a paragraph on a narrow screen.
+        <tr class="confirm-row">
+          <td colSpan={5}>
+            <div class="stack" style="gap:8px" data-testid="reinstate-confirm">
+              <span class="hint">
+                “{d.name}” syncs again with the connection it already has (no new code needed): records it has not sent go to
+                the server at its next sync, and it receives updates again. Reinstate it only if it is back in trusted hands.
+              </span>
+              <div class="row" style="gap:8px">
+                <button type="button" class="btn small primary" disabled={busy} onClick={() => void reinstate()}>Reinstate “{d.name}”</button>
+                <button type="button" class="btn small" onClick={() => onConfirm(false)}>Keep withdrawn</button>
+              </div>
+            </div>
+          </td>
+        </tr>
+      ) : null}
+    </>
   );
 }
