@@ -101,7 +101,7 @@ function PersonRow({ person: p, isMe, actions, confirming, onConfirm, pinOpen, o
                 <button type="button" class="btn small one-line" onClick={() => onConfirm(true)} aria-label={`Withdraw access of ${p.name}`}>Withdraw access</button>
               </>
             ) : (
-              <button type="button" class="btn small one-line" disabled={busy} onClick={() => void change({ active: true })} aria-label={`Give access back to ${p.name}`}>
+              <button type="button" class="btn small" disabled={busy} onClick={() => void change({ active: true })} aria-label={`Give access back to ${p.name}`}>
                 Give access back
               </button>
             )}
