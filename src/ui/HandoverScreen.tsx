@@ -41,7 +41,7 @@ export function HandoverScreen({ state, actions }: { state: AppState; actions: A
           ? 'Everything recorded on this tablet has reached the site server.'
           : `Not everything has reached the server: ${sync.text}. Sync before handing over.`}
       </div>
-      <div class="figures" aria-label="Shift totals">
+      <div class="figures figures-totals" aria-label="Shift totals">
         <div class="figure"><div class="k">Samples taken</div><div class="v">{h.totals.samples}</div></div>
         <div class="figure"><div class="k">Signals without an answer</div><div class="v">{h.totals.unanswered}</div></div>
         <div class="figure"><div class="k">Awaiting sign-off</div><div class="v">{h.totals.awaitingSignOff}</div></div>

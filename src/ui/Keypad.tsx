@@ -7,9 +7,11 @@ interface KeypadProps {
   readonly allowDecimal: boolean;
   readonly allowMinus: boolean;
   readonly nextLabel: string;
+  /** For a PIN: no separator key at all (a PIN has no decimal point), and the last key reads as the screen's main action. */
+  readonly pin?: boolean;
 }
 
-export function Keypad({ separator, onKey, allowDecimal, allowMinus, nextLabel }: KeypadProps) {
+export function Keypad({ separator, onKey, allowDecimal, allowMinus, nextLabel, pin = false }: KeypadProps) {
   const key = (k: KeypadKey, label: string, aria?: string, disabled = false) => (
     <button type="button" onClick={() => onKey(k)} aria-label={aria ?? label} disabled={disabled} data-key={k}>
       {label}
@@ -20,11 +22,11 @@ export function Keypad({ separator, onKey, allowDecimal, allowMinus, nextLabel }
       {key('7', '7')}{key('8', '8')}{key('9', '9')}
       {key('4', '4')}{key('5', '5')}{key('6', '6')}
       {key('1', '1')}{key('2', '2')}{key('3', '3')}
-      {key('sep', separator, 'Decimal separator', !allowDecimal)}
+      {pin ? <span class="keypad-gap" aria-hidden="true" /> : key('sep', separator, 'Decimal separator', !allowDecimal)}
       {key('0', '0')}
       {key('back', '⌫', 'Delete last digit')}
       {allowMinus ? key('minus', '±', 'Change sign') : null}
-      <button type="button" class={allowMinus ? 'wide two' : 'wide'} onClick={() => onKey('next')} data-key="next">
+      <button type="button" class={`${allowMinus ? 'wide two' : 'wide'}${pin ? ' btn primary' : ''}`} onClick={() => onKey('next')} data-key="next">
         {nextLabel}
       </button>
     </div>

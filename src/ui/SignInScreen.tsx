@@ -43,7 +43,7 @@ export function SignInScreen({ state, actions }: { state: AppState; actions: App
           <input class="text-input" name="pin" type="password" inputMode="numeric" autocomplete="current-password" value={pin}
             onInput={(e) => setPin((e.target as HTMLInputElement).value.replace(/\D/g, '').slice(0, 12))} />
         </label>
-        <Keypad separator="." allowDecimal={false} allowMinus={false} onKey={onKey} nextLabel={busy ? 'Checking…' : 'Sign in'} />
+        <Keypad pin separator="." allowDecimal={false} allowMinus={false} onKey={onKey} nextLabel={busy ? 'Checking…' : 'Sign in'} />
         {state.error ? <p class="error-text" role="alert">{state.error}</p> : null}
       </form>
     </main>

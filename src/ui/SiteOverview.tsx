@@ -18,7 +18,7 @@ export function SiteOverview({ state, actions }: { state: AppState; actions: App
           <button type="button" class="btn small" onClick={() => actions.open({ name: 'board' })}>Back to my station</button>
         </div>
       </div>
-      <div class="figures" aria-label="Site totals">
+      <div class="figures figures-totals" aria-label="Site totals">
         <div class="figure"><div class="k">Signals without an answer</div><div class="v" data-testid="total-open">{open}</div></div>
         <div class="figure"><div class="k">Answered, awaiting sign-off</div><div class="v">{awaiting}</div></div>
         <div class="figure"><div class="k">Late samples</div><div class="v">{late}</div></div>

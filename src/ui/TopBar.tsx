@@ -8,12 +8,18 @@ function clock(iso: string | undefined): string {
   return formatClock(iso);
 }
 
+/** What a sync in progress is doing, in words: sending only while there is something to send, never "0/0". */
+function syncingText(p: SyncView['progress'], pending: number): string {
+  if (!p) return pending > 0 ? 'Sending…' : 'Syncing…';
+  if (p.toPush > 0) return `Sending ${Math.min(p.pushed, p.toPush)} of ${p.toPush}…`;
+  return p.pulled > 0 ? `Receiving updates… ${p.pulled}` : 'Checking for updates…';
+}
+
 /** The sync state in plain words, e.g. "3 waiting to send · offline". */
 export function describeSync(s: SyncView): { text: string; tone: 'clear' | 'waiting' | 'failing' } {
   const waiting = s.pending > 0 ? `${s.pending} waiting to send` : 'All sent';
   if (s.state === 'syncing') {
-    const p = s.progress;
-    return { text: p ? `Sending ${p.pushed}/${p.toPush} · received ${p.pulled}` : 'Sending…', tone: 'waiting' };
+    return { text: syncingText(s.progress, s.pending), tone: 'waiting' };
   }
   if (s.withdrawn) return { text: `${waiting} · tablet withdrawn`, tone: 'failing' };
   if (s.state === 'offline') return { text: `${waiting} · no connection`, tone: s.pending ? 'waiting' : 'clear' };

@@ -67,6 +67,8 @@ describe.skipIf(!run)('a tour of every screen, for people to look at', () => {
         enrolled = true;
       } else {
         await page.getByTestId('person-pill').click();
+        await page.getByLabel('Login').waitFor();
+        await shot(p.login, 'sign-in', (await page.evaluate(() => document.documentElement.dataset.theme)) ?? 'light');
         await page.getByLabel('Login').fill(p.login);
         await page.getByLabel('PIN').fill(p.pin);
         await page.getByRole('button', { name: 'Sign in' }).click();

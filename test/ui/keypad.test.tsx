@@ -56,5 +56,14 @@ describe('Keypad', () => {
     expect(screen.queryByRole('button', { name: 'Change sign' })).toBeNull();
     expect(screen.getByRole('button', { name: 'Save sample' })).toBeTruthy();
     expect(screen.getAllByRole('button').filter((b) => /^\d$/.test(b.textContent ?? ''))).toHaveLength(10);
+    expect(screen.getByRole('button', { name: 'Save sample' }).classList.contains('primary')).toBe(false);
+  });
+
+  it('for a PIN: no decimal key at all, ten digits, and the last key styled as the main action', () => {
+    render(<Keypad pin separator="." allowDecimal={false} allowMinus={false} onKey={() => {}} nextLabel="Sign in" />);
+    expect(screen.queryByRole('button', { name: 'Decimal separator' })).toBeNull();
+    expect(screen.queryByRole('button', { name: 'Change sign' })).toBeNull();
+    expect(screen.getAllByRole('button').filter((b) => /^\d$/.test(b.textContent ?? ''))).toHaveLength(10);
+    expect(screen.getByRole('button', { name: 'Sign in' }).className).toContain('btn primary');
   });
 });

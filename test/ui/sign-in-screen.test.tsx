@@ -22,14 +22,23 @@ const login = () => (screen.getByLabelText('Login') as HTMLInputElement).value;
 describe('SignInScreen', () => {
   it('the PIN is typed on the keypad: digits only (no separator, no sign), at most 12, back deletes', () => {
     render(<SignInScreen state={state()} actions={fakeActions()} />);
-    for (const k of ['1', '2', 'sep', '3']) key(k);
+    for (const k of ['1', '2', '3']) key(k);
     expect(document.querySelector('.keypad [data-key="minus"]')).toBeNull();
+    expect(document.querySelector('.keypad [data-key="sep"]')).toBeNull(); // a PIN has no decimal point: no key for one
     expect(pin()).toBe('123');
     key('back');
     expect(pin()).toBe('12');
     for (let i = 0; i < 15; i++) key('9');
     expect(pin()).toHaveLength(12);
     expect(screen.getByLabelText('PIN').getAttribute('type')).toBe('password');
+  });
+
+  it('Sign in is the screen\'s main action: the primary button style', () => {
+    render(<SignInScreen state={state()} actions={fakeActions()} />);
+    const signIn = screen.getByRole('button', { name: 'Sign in' });
+    expect(signIn.getAttribute('data-key')).toBe('next');
+    expect(signIn.classList.contains('btn')).toBe(true);
+    expect(signIn.classList.contains('primary')).toBe(true);
   });
 
   it('tapping someone who signed in here before fills the login; the PIN is still asked for', () => {

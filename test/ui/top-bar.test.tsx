@@ -22,8 +22,16 @@ describe('describeSync', () => {
   });
 
   it('syncing: progress when known', () => {
-    expect(describeSync(sync({ state: 'syncing', pending: 10, progress: { pushed: 3, toPush: 10, pulled: 2 } }))).toEqual({ text: 'Sending 3/10 · received 2', tone: 'waiting' });
+    expect(describeSync(sync({ state: 'syncing', pending: 10, progress: { pushed: 3, toPush: 10, pulled: 2 } }))).toEqual({ text: 'Sending 3 of 10…', tone: 'waiting' });
     expect(describeSync(sync({ state: 'syncing', pending: 10 }))).toEqual({ text: 'Sending…', tone: 'waiting' });
+    expect(describeSync(sync({ state: 'syncing' }))).toEqual({ text: 'Syncing…', tone: 'waiting' });
+  });
+
+  it('syncing with nothing to send: says it is receiving, never "0/0"', () => {
+    const receiving = describeSync(sync({ state: 'syncing', progress: { pushed: 0, toPush: 0, pulled: 500 } }));
+    expect(receiving).toEqual({ text: 'Receiving updates… 500', tone: 'waiting' });
+    expect(describeSync(sync({ state: 'syncing', progress: { pushed: 0, toPush: 0, pulled: 0 } }))).toEqual({ text: 'Checking for updates…', tone: 'waiting' });
+    expect(receiving.text).not.toMatch(/0\/0/);
   });
 
   it('offline: waiting if anything is unsent, otherwise clear', () => {

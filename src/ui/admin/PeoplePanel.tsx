@@ -97,8 +97,8 @@ function PersonRow({ person: p, isMe, actions, confirming, onConfirm, pinOpen, o
               </>
             ) : p.active ? (
               <>
-                <button type="button" class="btn small" onClick={() => onPin(!pinOpen)} aria-expanded={pinOpen}>New PIN</button>
-                <button type="button" class="btn small" onClick={() => onConfirm(true)} aria-label={`Withdraw access of ${p.name}`}>Withdraw access</button>
+                <button type="button" class="btn small one-line" onClick={() => onPin(!pinOpen)} aria-expanded={pinOpen}>New PIN</button>
+                <button type="button" class="btn small one-line" onClick={() => onConfirm(true)} aria-label={`Withdraw access of ${p.name}`}>Withdraw access</button>
               </>
             ) : (
               <button type="button" class="btn small" disabled={busy} onClick={() => void change({ active: true })} aria-label={`Give access back to ${p.name}`}>
