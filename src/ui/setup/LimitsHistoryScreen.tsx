@@ -1,7 +1,7 @@
 import type { AppActions, AppState } from '../../app/app-state';
 import { SIGMA_METHOD_TEXT, limitsHistory, withdrawnPhases, type LimitsHistoryRow } from '../../app/limits-history';
-import { canChangePhases, correctionLines, isChangeablePhase } from '../../app/phase-change';
-import type { Phase, PhaseNote } from '../../schema';
+import { canChangePhases, correctionLines, isChangeablePhase, withdrawalLine } from '../../app/phase-change';
+import type { Phase } from '../../schema';
 import { formatShortDateTime } from '../format-time';
 import { CHART_SHORT_NAME } from './chart-names';
 import './setup.css';
@@ -28,7 +28,6 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
   const byId = new Map(state.setup.phases.map((p) => [p.id, p]));
   const mayChange = canChangePhases(state.person?.role);
   const nameOf = (id: string) => state.setup.people.find((p) => p.id === id)?.name ?? id;
-  const noteText = (verb: string, n: PhaseNote) => `${verb} ${formatShortDateTime(n.at)} by ${nameOf(n.by)}: ${n.note}`;
   const open = (phaseId: string) => actions.open({ name: 'edit-phase', characteristicId, phaseId });
   const d = ch.decimals + 2;
   const f = (v: number | null) => (v === null ? '—' : v.toFixed(d));
@@ -61,7 +60,7 @@ export function LimitsHistoryScreen({ state, actions, characteristicId }: { stat
                     <th scope="row">Phase {p.number} <span class="phase-note">withdrawn</span></th>
                     <td data-label="Starts">{formatShortDateTime(p.startsAt)}</td>
                     <td data-label="Reason">{p.reason}{correctionLines(p, ch, nameOf, formatShortDateTime).map((l) => <span key={l} class="phase-note">{l}</span>)}
-                      <span class="phase-note" data-testid={`withdrawn-note-${p.number}`}>{noteText('Withdrawn', p.withdrawn!)}</span></td>
+                      <span class="phase-note" data-testid={`withdrawn-note-${p.number}`}>{withdrawalLine(p, nameOf, formatShortDateTime)}</span></td>
                     <td data-label="Limits set by" colSpan={7}>Not used: its points are judged against the phase before.</td>
                   </tr>
                 );
