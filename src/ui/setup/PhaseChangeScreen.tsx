@@ -109,12 +109,7 @@ export function PhaseChangeScreen({ state, actions, characteristicId, phaseId }:
       <form class="stack" onSubmit={reviewChange} noValidate data-testid="phase-change-form" aria-labelledby="pc-correct-title">
         <h2 id="pc-correct-title">Correct the phase</h2>
         <section class="card stack">
-          <div class="entry-field setup-field">
-            <label for="pc-reason">Reason: the documented process change</label>
-            <textarea id="pc-reason" class="text-input" value={form.reason} onInput={(e) => input('reason', (e.target as HTMLTextAreaElement).value)}
-              aria-invalid={errors.reason ? 'true' : undefined} aria-describedby={errors.reason ? 'pc-reason-error' : undefined} />
-            {errors.reason ? <span id="pc-reason-error" class="error-text field-error">{errors.reason}</span> : null}
-          </div>
+          <TextField id="pc-reason" label="Reason: the documented process change" value={form.reason} onInput={(v) => input('reason', v)} error={errors.reason} multiline />
           <div class="entry-field setup-field">
             <label for="pc-point">First point of the phase</label>
             <select id="pc-point" class="text-input" value={form.startSampleId} onChange={(e) => input('startSampleId', (e.target as HTMLSelectElement).value)}
@@ -156,13 +151,8 @@ export function PhaseChangeScreen({ state, actions, characteristicId, phaseId }:
         <h2 id="pc-withdraw-title">Withdraw the phase</h2>
         <section class="card stack">
           <p class="hint">For a phase started by mistake: the chart then shows the limits as if it had never started. It stays in the limits history, marked withdrawn, with your note.</p>
-          <div class="entry-field setup-field">
-            <label for="pc-withdraw-note">Why it is withdrawn</label>
-            <textarea id="pc-withdraw-note" class="text-input" value={withdrawNote} data-testid="withdraw-note"
-              onInput={(e) => { setWithdrawNote((e.target as HTMLTextAreaElement).value); if (pending?.kind === 'withdraw') setPending(null); }}
-              aria-invalid={withdrawError ? 'true' : undefined} aria-describedby={withdrawError ? 'pc-withdraw-error' : undefined} />
-            {withdrawError ? <span id="pc-withdraw-error" class="error-text field-error">{withdrawError}</span> : null}
-          </div>
+          <TextField id="pc-withdraw-note" label="Why it is withdrawn" value={withdrawNote} error={withdrawError} testId="withdraw-note" multiline
+            onInput={(v) => { setWithdrawNote(v); if (pending?.kind === 'withdraw') setPending(null); }} />
         </section>
         {confirm('withdraw') ?? (
           <div class="row">

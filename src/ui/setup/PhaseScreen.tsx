@@ -79,12 +79,7 @@ export function PhaseScreen({ state, actions, characteristicId, fromSampleId }: 
       <OfflineNotice sync={state.sync} />
       <form class="stack" onSubmit={review} noValidate data-testid="phase-form">
         <section class="card stack">
-          <div class="entry-field setup-field">
-            <label for="ph-reason">Reason: the documented process change</label>
-            <textarea id="ph-reason" class="text-input" value={form.reason} onInput={(e) => input('reason', (e.target as HTMLTextAreaElement).value)}
-              aria-invalid={errors.reason ? 'true' : undefined} aria-describedby={errors.reason ? 'ph-reason-error' : undefined} />
-            {errors.reason ? <span id="ph-reason-error" class="error-text field-error">{errors.reason}</span> : null}
-          </div>
+          <TextField id="ph-reason" label="Reason: the documented process change" value={form.reason} onInput={(v) => input('reason', v)} error={errors.reason} multiline />
         </section>
         <section class="card stack">
           <fieldset>
